@@ -1,0 +1,35 @@
+# cmake -DMODE=find_package|subdirectory|fetchcontent -DSOURCE_DIR=.. -DBUILD_DIR=..
+#       -DWORK_DIR=.. -DCXX=.. -P check_package.cmake
+# Builds and runs tests/package/consumer the way a user's project would.
+file(REMOVE_RECURSE ${WORK_DIR})
+file(MAKE_DIRECTORY ${WORK_DIR})
+set(_configure_args -S ${SOURCE_DIR}/tests/package/consumer -B ${WORK_DIR}/build
+    -DCMAKE_CXX_COMPILER=${CXX} -DTAUFORGE_CONSUME=${MODE} -DTAUFORGE_SOURCE_DIR=${SOURCE_DIR})
+if(MODE STREQUAL "find_package")
+  execute_process(COMMAND ${CMAKE_COMMAND} --install ${BUILD_DIR} --prefix ${WORK_DIR}/prefix
+                  RESULT_VARIABLE rc OUTPUT_VARIABLE out ERROR_VARIABLE out)
+  if(NOT rc EQUAL 0)
+    message(FATAL_ERROR "install to a temporary prefix failed:\n${out}")
+  endif()
+  foreach(f include/tauforge/tauforge.hpp share/cmake/tauforge/tauforgeConfig.cmake
+            share/cmake/tauforge/tauforgeConfigVersion.cmake share/pkgconfig/tauforge.pc)
+    if(NOT EXISTS ${WORK_DIR}/prefix/${f})
+      message(FATAL_ERROR "install did not produce ${f}")
+    endif()
+  endforeach()
+  list(APPEND _configure_args -DCMAKE_PREFIX_PATH=${WORK_DIR}/prefix)
+endif()
+foreach(step configure build test)
+  if(step STREQUAL "configure")
+    set(cmd ${CMAKE_COMMAND} ${_configure_args})
+  elseif(step STREQUAL "build")
+    set(cmd ${CMAKE_COMMAND} --build ${WORK_DIR}/build)
+  else()
+    set(cmd ${CMAKE_CTEST_COMMAND} --test-dir ${WORK_DIR}/build --output-on-failure)
+  endif()
+  execute_process(COMMAND ${cmd} RESULT_VARIABLE rc OUTPUT_VARIABLE out ERROR_VARIABLE out)
+  if(NOT rc EQUAL 0)
+    message(FATAL_ERROR "consumer ${step} (${MODE}) failed:\n${out}")
+  endif()
+endforeach()
+message(STATUS "consumer via ${MODE}: ok")

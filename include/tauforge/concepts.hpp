@@ -1,0 +1,99 @@
+#pragma once
+/// What analysis and synthesis need from a timing network, as concepts.
+///
+/// A network is plain data plus pure functions. It names its uncertain
+/// parameters and its metrics (static tables), gives each parameter's interval
+/// at its operating conditions, and evaluates all metrics from one set of
+/// parameter values in SI base units. Analysis (corners, sensitivities,
+/// Monte Carlo) and synthesis work on any type that satisfies these concepts,
+/// so adding a network never touches them.
+///
+///     static_assert(tauforge::TimingNetwork<tauforge::rc_delay>);
+
+#include "tauforge/units.hpp"
+
+#include <array>
+#include <concepts>
+#include <cstddef>
+#include <string_view>
+
+namespace tauforge {
+
+/// The range one uncertain parameter can take at the operating conditions,
+/// in the SI base unit of that parameter.
+struct interval {
+    double nominal = 0.0;
+    double low = 0.0;
+    double high = 0.0;
+    /// A fixed value: low == nominal == high.
+    static constexpr interval exactly(double v) { return {v, v, v}; }
+    constexpr bool is_fixed() const { return low == high; }
+    friend constexpr bool operator==(const interval&, const interval&) = default;
+};
+
+/// Static description of a parameter or a metric: its name and SI unit symbol
+/// ("Ω", "F", "s", "V", "Hz", "" for a ratio).
+struct quantity_info {
+    std::string_view name;
+    std::string_view unit;
+};
+
+/// The kind of part a synthesis slot takes: the combining rule for two-part
+/// (series/parallel) values depends on it.
+enum class part_kind { resistor, capacitor };
+
+/// A part that synthesis chooses: its name, kind and the index of the
+/// parameter that holds its value.
+struct design_slot {
+    std::string_view name;
+    part_kind kind;
+    std::size_t parameter;
+};
+
+/// A value chosen for a design slot with the tolerance it is bought at.
+struct part_choice {
+    double value = 0.0;  ///< SI base unit (Ω or F)
+    tolerance tol{};
+};
+
+/// `TimingNetwork<N>`: N names its parameters and metrics in static tables,
+/// reports each parameter's interval, and evaluates every metric at once from
+/// plain doubles in SI base units.
+template <class N>
+concept TimingNetwork = requires(const N& n, const std::array<double, N::parameters.size()>& x) {
+    { N::parameters } -> std::convertible_to<std::array<quantity_info, N::parameters.size()>>;
+    { N::metrics } -> std::convertible_to<std::array<quantity_info, N::metrics.size()>>;
+    { n.ranges() } -> std::same_as<std::array<interval, N::parameters.size()>>;
+    { n.evaluate(x) } -> std::same_as<std::array<double, N::metrics.size()>>;
+};
+
+template <TimingNetwork N>
+inline constexpr std::size_t parameter_count_v = N::parameters.size();
+template <TimingNetwork N>
+inline constexpr std::size_t metric_count_v = N::metrics.size();
+
+/// `DesignableNetwork<N>`: a TimingNetwork some of whose parts synthesis can
+/// choose. `with_parts` returns a copy with those parts' nominal values and
+/// tolerances replaced; everything else (temperature behaviour, supply,
+/// thresholds) stays as the user described it.
+template <class N>
+concept DesignableNetwork =
+    TimingNetwork<N> && requires(const N& n, const std::array<part_choice, N::design_slots.size()>& parts) {
+        { N::design_slots } -> std::convertible_to<std::array<design_slot, N::design_slots.size()>>;
+        { n.with_parts(parts) } -> std::same_as<N>;
+    };
+
+/// `SolvableNetwork<N>`: a DesignableNetwork that can be solved for one part:
+/// given nominal values for every slot (the solved slot's entry is ignored),
+/// `solve_slot(slot, metric, target, values)` returns the nominal value of
+/// `slot` that puts `metric` at `target`, or a non-positive value when no
+/// value of that part reaches the target. Synthesis uses it as its fast path.
+template <class N>
+concept SolvableNetwork =
+    DesignableNetwork<N> &&
+    requires(const N& n, std::size_t slot, std::size_t metric, double target,
+             const std::array<double, N::design_slots.size()>& values) {
+        { n.solve_slot(slot, metric, target, values) } -> std::same_as<double>;
+    };
+
+}  // namespace tauforge

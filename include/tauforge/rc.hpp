@@ -1,0 +1,240 @@
+#pragma once
+/// The exact first-order RC response: the one place where exp and log of RC
+/// arithmetic live. Every network composes these functions.
+///
+///     using namespace tauforge::literals;
+///     auto tau = 100_kohm * 10_nF;
+///     auto t = tauforge::crossing_time(0_V, 5_V, 5.0_V * 2 / 3, tau);  // tau * ln 3
+///
+/// The `detail::rc` functions are the same formulas on plain doubles in SI base
+/// units for hot loops; the public functions are thin unit-typed wrappers.
+
+#include "tauforge/detail/validate.hpp"
+#include "tauforge/units.hpp"
+
+#include <boost/math/tools/toms748_solve.hpp>
+
+#include <cmath>
+#include <cstdint>
+#include <string>
+#include <utility>
+
+namespace tauforge {
+
+/// A capacitor's charging path reduced to one source and one time constant.
+struct rc_drive {
+    voltage v_final;  ///< the voltage the capacitor approaches (it can never pass it)
+    duration tau;     ///< the effective time constant
+};
+
+/// A source that rises (or falls) linearly from `v_begin` to `v_end` over
+/// `rise_time`, then stays at `v_end`: a supply ramping up at power-on.
+struct ramp_input {
+    voltage v_begin;
+    voltage v_end;
+    duration rise_time;
+};
+
+namespace detail::rc {
+
+[[noreturn]] inline void threshold_out_of_reach(std::string_view function, double vs, double vf, double vth) {
+    throw domain_error(std::string(function) + ": v_threshold = " + value_text(voltage::from_value(vth)) +
+                       " is not reached from v_start = " + value_text(voltage::from_value(vs)) +
+                       " towards v_final = " + value_text(voltage::from_value(vf)) +
+                       "; expected a threshold strictly between start and final value, or equal to the start");
+}
+
+inline void check_tau(std::string_view function, double tau) {
+    require_positive(function, "tau", duration::from_value(tau), "a positive, finite time constant");
+}
+
+inline void check_voltages(std::string_view function, double vs, double vf, double vth) {
+    require_finite(function, "v_start", voltage::from_value(vs), "a finite voltage");
+    require_finite(function, "v_final", voltage::from_value(vf), "a finite voltage");
+    require_finite(function, "v_threshold", voltage::from_value(vth), "a finite voltage");
+}
+
+/// ln((vs - vf) / (vth - vf)) computed as log1p((vs - vth) / (vth - vf)), so a
+/// threshold near the start keeps full precision. Throws if vth is not reached.
+inline double log_ratio_to_threshold(std::string_view function, double vs, double vf, double vth) {
+    check_voltages(function, vs, vf, vth);
+    if (vth == vs) return 0.0;
+    const bool between = (vs < vth && vth < vf) || (vf < vth && vth < vs);
+    if (!between) threshold_out_of_reach(function, vs, vf, vth);
+    return std::log1p((vs - vth) / (vth - vf));
+}
+
+/// v(t) = vf + (vs - vf) e^(-t/tau).
+inline double voltage_at(double vs, double vf, double tau, double t) {
+    return vf + (vs - vf) * std::exp(-t / tau);
+}
+
+/// Time for v to go from vs to vth while approaching vf with time constant tau.
+inline double crossing_time(double vs, double vf, double vth, double tau) {
+    check_tau("crossing_time", tau);
+    return tau * log_ratio_to_threshold("crossing_time", vs, vf, vth);
+}
+
+/// x + expm1(-x) = x^2/2 - x^3/6 + ..., without cancellation for small x.
+inline double ramp_lag_term(double x) {
+    if (x < 0.1) {
+        double term = x * x / 2.0, sum = 0.0;
+        for (int n = 3; n < 40 && std::abs(term) > 1e-18 * std::abs(sum); ++n) {
+            sum += term;
+            term *= -x / n;
+        }
+        return sum;
+    }
+    return x + std::expm1(-x);
+}
+
+/// Capacitor voltage at t while the input ramps (0 <= t <= rise_time), from v_cap0.
+///   v(t) - v_cap0 = (v_begin - v_cap0)(1 - e^(-x)) + slope tau (x - 1 + e^(-x)),  x = t / tau
+inline double ramp_voltage_during(double v_begin, double slope, double v_cap0, double tau, double t) {
+    const double x = t / tau;
+    return v_cap0 - (v_begin - v_cap0) * std::expm1(-x) + slope * tau * ramp_lag_term(x);
+}
+
+inline void check_ramp(std::string_view function, double v_begin, double v_end, double rise, double v_cap0,
+                       double tau) {
+    require_finite(function, "v_begin", voltage::from_value(v_begin), "a finite voltage");
+    require_finite(function, "v_end", voltage::from_value(v_end), "a finite voltage");
+    require_non_negative(function, "rise_time", duration::from_value(rise), "a non-negative, finite time");
+    require_finite(function, "v_cap_start", voltage::from_value(v_cap0), "a finite voltage");
+    check_tau(function, tau);
+}
+
+inline double ramp_voltage_at(double v_begin, double v_end, double rise, double v_cap0, double tau, double t) {
+    check_ramp("ramp_voltage_at", v_begin, v_end, rise, v_cap0, tau);
+    require_non_negative("ramp_voltage_at", "t", duration::from_value(t), "a non-negative, finite time");
+    if (t <= rise) return ramp_voltage_during(v_begin, (v_end - v_begin) / rise, v_cap0, tau, t);
+    const double v_rise = rise > 0 ? ramp_voltage_during(v_begin, (v_end - v_begin) / rise, v_cap0, tau, rise) : v_cap0;
+    return voltage_at(v_rise, v_end, tau, t - rise);
+}
+
+/// First time the capacitor, starting at v_cap0, crosses vth while the input ramps
+/// from v_begin to v_end over `rise` and then stays at v_end.
+/// The threshold must lie strictly between v_cap0 and v_end (or equal v_cap0).
+/// Within the ramp, the root is bracketed and found with TOMS 748 to about 2e-13
+/// relative; after it the closed form applies.
+inline double ramp_crossing_time(double v_begin, double v_end, double rise, double v_cap0, double vth, double tau) {
+    constexpr std::string_view fn = "ramp_crossing_time";
+    check_ramp(fn, v_begin, v_end, rise, v_cap0, tau);
+    require_finite(fn, "v_threshold", voltage::from_value(vth), "a finite voltage");
+    if (vth == v_cap0) return 0.0;
+    const bool between = (v_cap0 < vth && vth < v_end) || (v_end < vth && vth < v_cap0);
+    if (!between) threshold_out_of_reach(fn, v_cap0, v_end, vth);
+    if (rise == 0.0) return crossing_time(v_cap0, v_end, vth, tau);
+    const double slope = (v_end - v_begin) / rise;
+    // v' is monotone during the ramp (v'' = (slope - v') / tau), so v has at most one
+    // extremum and crosses a threshold beyond the start only once.
+    const double sign = v_end > v_cap0 ? 1.0 : -1.0;
+    auto f = [&](double t) { return sign * (ramp_voltage_during(v_begin, slope, v_cap0, tau, t) - vth); };
+    const double f_end = f(rise);
+    if (f_end < 0.0) {
+        const double v_rise = ramp_voltage_during(v_begin, slope, v_cap0, tau, rise);
+        return rise + crossing_time(v_rise, v_end, vth, tau);
+    }
+    if (f_end == 0.0) return rise;
+    // f(0) < 0 here; if the capacitor first moves away (v_begin beyond v_cap0 on the
+    // wrong side), f stays negative until its minimum, and the bracket still holds.
+    std::uintmax_t iterations = 200;
+    const auto [lo, hi] = boost::math::tools::toms748_solve(f, 0.0, rise, f(0.0), f_end,
+                                                            boost::math::tools::eps_tolerance<double>(43), iterations);
+    return lo + (hi - lo) / 2.0;
+}
+
+}  // namespace detail::rc
+
+/// Capacitor voltage t after a step, starting at v_start and approaching v_final:
+/// v(t) = v_final + (v_start - v_final) e^(-t/tau).
+inline voltage voltage_at(Voltage auto v_start, Voltage auto v_final, Duration auto tau, Duration auto t) {
+    detail::rc::check_tau("voltage_at", tau.value());
+    detail::require_non_negative("voltage_at", "t", t, "a non-negative, finite time");
+    detail::rc::check_voltages("voltage_at", v_start.value(), v_final.value(), v_final.value());
+    return voltage::from_value(detail::rc::voltage_at(v_start.value(), v_final.value(), tau.value(), t.value()));
+}
+
+/// Time for the capacitor to go from v_start to v_threshold while approaching v_final:
+/// t = tau ln((v_start - v_final) / (v_threshold - v_final)), computed as
+/// tau log1p((v_start - v_threshold) / (v_threshold - v_final)).
+/// Throws `domain_error` unless the threshold lies strictly between start and
+/// final value or equals the start (then t = 0).
+inline duration crossing_time(Voltage auto v_start, Voltage auto v_final, Voltage auto v_threshold, Duration auto tau) {
+    return duration::from_value(
+        detail::rc::crossing_time(v_start.value(), v_final.value(), v_threshold.value(), tau.value()));
+}
+
+/// The time constant for which the crossing from v_start to v_threshold takes time t.
+inline duration time_constant_for(Voltage auto v_start, Voltage auto v_final, Voltage auto v_threshold,
+                                  Duration auto t) {
+    constexpr std::string_view fn = "time_constant_for";
+    detail::require_positive(fn, "t", t, "a positive, finite time");
+    if (v_threshold == v_start) detail::rc::threshold_out_of_reach(fn, v_start.value(), v_final.value(), v_threshold.value());
+    return duration::from_value(t.value() / detail::rc::log_ratio_to_threshold(fn, v_start.value(), v_final.value(),
+                                                                              v_threshold.value()));
+}
+
+/// Time until the capacitor is within `fraction` of the step from its final
+/// value: tau ln(1 / fraction). 1 % settling is 4.605 tau.
+inline duration settling_time(double fraction, Duration auto tau) {
+    constexpr std::string_view fn = "settling_time";
+    if (!(fraction > 0.0 && fraction < 1.0))
+        detail::fail_invalid(fn, "fraction", fraction, "a fraction of the step strictly between 0 and 1");
+    detail::rc::check_tau(fn, tau.value());
+    return tau * -std::log(fraction);
+}
+
+/// Time constants needed to settle within half an LSB of an N-bit converter: (N + 1) ln 2.
+inline double half_lsb_time_constants(int bits) {
+    if (bits < 1 || bits > 32)
+        detail::fail_invalid("half_lsb_time_constants", "bits", static_cast<double>(bits), "a resolution of 1 to 32 bits");
+    return (bits + 1) * std::log(2.0);
+}
+
+/// Thevenin reduction of a source `v_source` behind `r_source`, charging `c`,
+/// with a shunt path `r_shunt` from the capacitor to `v_shunt` (a leaky
+/// capacitor, a pin's input resistance): the capacitor approaches
+/// v_final = (v_source r_shunt + v_shunt r_source) / (r_source + r_shunt)
+/// with tau = c (r_source || r_shunt).
+inline rc_drive with_shunt(Voltage auto v_source, Resistance auto r_source, Capacitance auto c,
+                           Resistance auto r_shunt, voltage v_shunt = voltage::from_value(0.0)) {
+    constexpr std::string_view fn = "with_shunt";
+    detail::require_finite(fn, "v_source", v_source, "a finite voltage");
+    detail::require_positive(fn, "r_source", r_source, "a positive, finite resistance");
+    detail::require_positive(fn, "c", c, "a positive, finite capacitance");
+    detail::require_positive(fn, "r_shunt", r_shunt, "a positive, finite resistance (no shunt: omit it)");
+    detail::require_finite(fn, "v_shunt", v_shunt, "a finite voltage");
+    const double rs = r_source.value(), rp = r_shunt.value();
+    const double vf = (v_source.value() * rp + v_shunt.value() * rs) / (rs + rp);
+    return {voltage::from_value(vf), duration::from_value(c.value() * (rs * rp / (rs + rp)))};
+}
+
+/// Thevenin reduction with a constant leakage current `i_leak` drawn from the
+/// capacitor node: v_final = v_source - i_leak r_source, tau = r_source c.
+inline rc_drive with_leakage_current(Voltage auto v_source, Resistance auto r_source, Capacitance auto c,
+                                     Current auto i_leak) {
+    constexpr std::string_view fn = "with_leakage_current";
+    detail::require_finite(fn, "v_source", v_source, "a finite voltage");
+    detail::require_positive(fn, "r_source", r_source, "a positive, finite resistance");
+    detail::require_positive(fn, "c", c, "a positive, finite capacitance");
+    detail::require_finite(fn, "i_leak", i_leak, "a finite current");
+    return {v_source - i_leak * r_source, r_source * c};
+}
+
+/// Capacitor voltage at t for a ramp input, starting from v_cap_start.
+inline voltage voltage_at(const ramp_input& in, Voltage auto v_cap_start, Duration auto tau, Duration auto t) {
+    return voltage::from_value(detail::rc::ramp_voltage_at(in.v_begin.value(), in.v_end.value(), in.rise_time.value(),
+                                                           v_cap_start.value(), tau.value(), t.value()));
+}
+
+/// First time the capacitor, from v_cap_start, crosses v_threshold for a ramp input.
+/// The threshold must lie strictly between v_cap_start and in.v_end, or equal v_cap_start.
+inline duration crossing_time(const ramp_input& in, Voltage auto v_cap_start, Voltage auto v_threshold,
+                              Duration auto tau) {
+    return duration::from_value(detail::rc::ramp_crossing_time(in.v_begin.value(), in.v_end.value(),
+                                                               in.rise_time.value(), v_cap_start.value(),
+                                                               v_threshold.value(), tau.value()));
+}
+
+}  // namespace tauforge
