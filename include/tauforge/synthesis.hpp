@@ -1,0 +1,536 @@
+#pragma once
+/// Synthesis: choose parts from value sets so that a network's metrics stay
+/// inside a timing window at worst case, and rank the designs that do.
+///
+///     rc_delay net;                                   // supply, threshold, TCR ... as built
+///     timing_spec<rc_delay> spec;
+///     spec.around("delay", 1_ms, tolerance::symmetric(0.15));
+///     auto result = synthesize(net, spec, {candidates(e24_r), candidates(e12_c)});
+///     for (const auto& d : result.designs) std::puts(describe(d).c_str());
+///
+/// Ranking (best first): holds the window at worst case; larger margin to the
+/// window edges; fewer parts; coarser series; smaller nominal error; then the
+/// part values themselves, so the order is total and reproducible.
+///
+/// Worst case here is the corner bound of `metric_bounds` (analysis/worst_case.hpp): exact for
+/// metrics monotone in every parameter (all networks in networks/ are).
+///
+/// The fast path (networks that satisfy SolvableNetwork) enumerates every
+/// choice of the other slots, solves the remaining slot for the window's
+/// centre and walks outwards through that slot's sorted values while a value
+/// could still enter the top k. It returns exactly the exhaustive top k when
+/// the margin is unimodal along that slot (true when every metric is monotone
+/// in it); tests check the equality on random specs.
+
+#include "tauforge/analysis/worst_case.hpp"
+#include "tauforge/concepts.hpp"
+#include "tauforge/detail/validate.hpp"
+#include "tauforge/notation.hpp"
+#include "tauforge/series.hpp"
+
+#include <algorithm>
+#include <array>
+#include <cmath>
+#include <cstddef>
+#include <cstdint>
+#include <limits>
+#include <optional>
+#include <string>
+#include <string_view>
+#include <vector>
+
+namespace tauforge {
+
+/// One requirement: metric number `metric` stays within [low, high] (SI base
+/// unit) at worst case. An open side is +/- infinity.
+struct requirement {
+    std::size_t metric = 0;
+    double low = -std::numeric_limits<double>::infinity();
+    double high = std::numeric_limits<double>::infinity();
+};
+
+/// The timing windows a design must hold, by metric name.
+template <TimingNetwork N>
+class timing_spec {
+public:
+    /// metric in [low, high]: spec.between("delay", 0.9_ms, 1.1_ms).
+    template <class Q>
+    timing_spec& between(std::string_view metric, Q low, Q high) {
+        return add(metric, value_of(metric, low), value_of(metric, high));
+    }
+    /// metric within nominal (1 - minus) .. nominal (1 + plus).
+    template <class Q>
+    timing_spec& around(std::string_view metric, Q nominal, tolerance t) {
+        const double n = value_of(metric, nominal);
+        if (!(t.minus >= 0.0 && t.minus < 1.0 && t.plus >= 0.0 && std::isfinite(t.plus)))
+            throw invalid_argument("timing_spec::around: tolerance = " + format_percent(t.minus) + "/" +
+                                   format_percent(t.plus) + " is invalid; expected 0 <= minus < 100 %, plus >= 0");
+        return add(metric, n * (1.0 - t.minus), n * (1.0 + t.plus));
+    }
+    /// metric <= high.
+    template <class Q>
+    timing_spec& at_most(std::string_view metric, Q high) {
+        return add(metric, -std::numeric_limits<double>::infinity(), value_of(metric, high));
+    }
+    /// metric >= low.
+    template <class Q>
+    timing_spec& at_least(std::string_view metric, Q low) {
+        return add(metric, value_of(metric, low), std::numeric_limits<double>::infinity());
+    }
+
+    const std::vector<requirement>& requirements() const noexcept { return reqs_; }
+
+    /// The index of a metric by name; throws naming the valid names.
+    static std::size_t metric_index(std::string_view name) {
+        for (std::size_t i = 0; i < N::metrics.size(); ++i)
+            if (N::metrics[i].name == name) return i;
+        std::string valid;
+        for (const auto& m : N::metrics) valid += (valid.empty() ? "\"" : ", \"") + std::string(m.name) + "\"";
+        throw invalid_argument("timing_spec: metric = \"" + std::string(name) + "\" is invalid; expected one of " +
+                               valid);
+    }
+
+private:
+    template <class Q>
+    static double value_of(std::string_view metric, Q q) {
+        const auto& info = N::metrics[metric_index(metric)];
+        if constexpr (std::is_arithmetic_v<Q>) {
+            if (!info.unit.empty())
+                throw invalid_argument("timing_spec: metric \"" + std::string(metric) + "\" is in " +
+                                       std::string(info.unit) + "; expected a quantity in " + std::string(info.unit) +
+                                       ", not a plain number");
+            return static_cast<double>(q);
+        } else {
+            if (unit_symbol<Q>::unicode != info.unit)
+                throw invalid_argument("timing_spec: metric \"" + std::string(metric) + "\" is in " +
+                                       std::string(info.unit) + "; a value in " +
+                                       std::string(unit_symbol<Q>::unicode) + " was given");
+            return q.value();
+        }
+    }
+
+    timing_spec& add(std::string_view metric, double low, double high) {
+        const std::size_t m = metric_index(metric);
+        const std::string name = "timing_spec: " + std::string(metric);
+        if (std::isnan(low) || std::isnan(high) || low == std::numeric_limits<double>::infinity() ||
+            high == -std::numeric_limits<double>::infinity())
+            throw invalid_argument(name + " window is invalid; expected finite edges (one side may be open)");
+        if (!(low < high))
+            throw invalid_argument(name + " window [" + detail::quoted_value(low) + ", " +
+                                   detail::quoted_value(high) + "] " + std::string(N::metrics[m].unit) +
+                                   " is invalid; expected low < high");
+        reqs_.push_back({m, low, high});
+        return *this;
+    }
+
+    std::vector<requirement> reqs_;
+};
+
+/// Series rank of a candidate value for the "coarser series" tie-break:
+/// 0 = E3 ... 6 = E192, 7 = a stock list or unknown.
+using series_rank = std::uint8_t;
+inline constexpr series_rank stock_rank = 7;
+
+/// One value a slot may take, with the tolerance it is bought at.
+struct candidate_value {
+    double value = 0.0;  ///< SI base unit
+    tolerance tol{};
+    series_rank rank = stock_rank;
+    std::string_view origin = "stock";  ///< "E24", "stock", ... (static storage)
+};
+
+/// A value set as a slot's candidate list (sorted, with tolerance and series).
+template <class Q>
+std::vector<candidate_value> candidates(const value_set<Q>& set) {
+    std::vector<candidate_value> out;
+    out.reserve(set.size());
+    for (const auto& p : set)
+        out.push_back({p.value.value(), p.tol,
+                       p.series ? static_cast<series_rank>(*p.series) : stock_rank,
+                       p.series ? series_name(*p.series) : std::string_view("stock")});
+    return out;
+}
+
+/// How synthesis searches.
+enum class search_method {
+    automatic,   ///< fast path when the network is SolvableNetwork, else exhaustive
+    exhaustive,  ///< every combination of candidate values
+    fast,        ///< solve one slot, walk its neighbours (SolvableNetwork only)
+};
+
+struct synthesis_options {
+    std::size_t top_k = 10;  ///< how many designs to return, 1 .. 1000
+    search_method method = search_method::automatic;
+};
+
+/// Why no design holds the spec.
+enum class infeasibility {
+    none,               ///< designs were found
+    tolerance_too_wide, ///< the parts' own spread is wider than the window
+    out_of_reach,       ///< the value sets cannot reach the window
+};
+
+/// A ranked design: chosen parts, nominal metrics, worst-case bounds, margin.
+template <DesignableNetwork N>
+struct design {
+    static constexpr std::size_t slot_count = N::design_slots.size();
+    static constexpr std::size_t metric_count = N::metrics.size();
+    std::array<candidate_value, slot_count> parts{};
+    N network{};                                ///< the network with these parts
+    std::array<double, metric_count> nominal{};  ///< metrics at nominal values
+    std::array<double, metric_count> worst_min{};
+    std::array<double, metric_count> worst_max{};
+    /// Smallest distance of a worst-case bound inside its window edge, as a
+    /// fraction of the window's half-width (one-sided window: of the edge
+    /// value). 1 = no spread at the centre; 0 = touches an edge; < 0 = outside.
+    double margin = 0.0;
+    std::size_t tight_requirement = 0;  ///< index into spec.requirements()
+    bool tight_at_high = false;         ///< whether the upper edge is the tight one
+    double nominal_error = 0.0;         ///< largest |nominal - centre| / half-width
+    /// True when every requirement holds at worst case.
+    bool holds() const noexcept { return margin >= 0.0; }
+};
+
+template <DesignableNetwork N>
+struct synthesis_result {
+    std::vector<design<N>> designs;  ///< best first; empty when infeasible
+    infeasibility why = infeasibility::none;
+    std::string reason;              ///< names the ruling constraint when empty
+    std::uint64_t evaluated = 0;     ///< candidate designs analysed
+    bool feasible() const noexcept { return !designs.empty(); }
+};
+
+namespace detail {
+
+inline double window_margin(const requirement& r, double lo, double hi, bool& at_high) {
+    const bool has_low = std::isfinite(r.low), has_high = std::isfinite(r.high);
+    const double scale = has_low && has_high ? (r.high - r.low) / 2.0
+                                             : std::abs(has_low ? r.low : r.high);
+    const double s = scale > 0.0 ? scale : 1.0;
+    const double m_low = has_low ? (lo - r.low) / s : std::numeric_limits<double>::infinity();
+    const double m_high = has_high ? (r.high - hi) / s : std::numeric_limits<double>::infinity();
+    at_high = m_high < m_low;
+    return std::min(m_low, m_high);
+}
+
+inline double window_error(const requirement& r, double v) {
+    if (!(std::isfinite(r.low) && std::isfinite(r.high))) return 0.0;
+    return std::abs(v - (r.low + r.high) / 2.0) / ((r.high - r.low) / 2.0);
+}
+
+/// Scores one choice of parts: worst-case bounds, margin, tight edge, nominal error.
+template <DesignableNetwork N>
+design<N> score_design(const N& base, const std::vector<requirement>& reqs,
+                       const std::array<candidate_value, N::design_slots.size()>& parts) {
+    constexpr std::size_t S = N::design_slots.size();
+    std::array<part_choice, S> choice{};
+    for (std::size_t s = 0; s < S; ++s) choice[s] = {parts[s].value, parts[s].tol};
+    design<N> d;
+    d.parts = parts;
+    d.network = base.with_parts(choice);
+    const auto b = metric_bounds(d.network);
+    for (std::size_t m = 0; m < N::metrics.size(); ++m) {
+        d.nominal[m] = b[m].nominal;
+        d.worst_min[m] = b[m].low;
+        d.worst_max[m] = b[m].high;
+    }
+    d.margin = std::numeric_limits<double>::infinity();
+    for (std::size_t i = 0; i < reqs.size(); ++i) {
+        bool at_high = false;
+        const double m = window_margin(reqs[i], d.worst_min[reqs[i].metric], d.worst_max[reqs[i].metric], at_high);
+        if (m < d.margin) {
+            d.margin = m;
+            d.tight_requirement = i;
+            d.tight_at_high = at_high;
+        }
+        d.nominal_error = std::max(d.nominal_error, window_error(reqs[i], d.nominal[reqs[i].metric]));
+    }
+    return d;
+}
+
+/// Margins and nominal errors compare in steps of 1e-9 (of the half-window), so
+/// designs that differ only by rounding (1.1k x 820n against 11k x 82n) tie and
+/// the later keys decide between them.
+inline double rank_key(double v) { return std::round(v * 1e9); }
+
+/// The ranking: true when a ranks before b.
+template <DesignableNetwork N>
+bool ranks_before(const design<N>& a, const design<N>& b) {
+    if (rank_key(a.margin) != rank_key(b.margin)) return a.margin > b.margin;
+    // Fewer parts: every slot holds one part until two-part slots exist.
+    series_rank ra = 0, rb = 0;
+    for (const auto& p : a.parts) ra = std::max(ra, p.rank);
+    for (const auto& p : b.parts) rb = std::max(rb, p.rank);
+    if (ra != rb) return ra < rb;
+    if (rank_key(a.nominal_error) != rank_key(b.nominal_error)) return a.nominal_error < b.nominal_error;
+    for (std::size_t s = 0; s < a.parts.size(); ++s)
+        if (a.parts[s].value != b.parts[s].value) return a.parts[s].value < b.parts[s].value;
+    for (std::size_t s = 0; s < a.parts.size(); ++s)
+        if (a.parts[s].tol.widest() != b.parts[s].tol.widest()) return a.parts[s].tol.widest() < b.parts[s].tol.widest();
+    return false;
+}
+
+/// The k best designs seen so far, plus the best non-holding one for the reason.
+template <DesignableNetwork N>
+class top_designs {
+public:
+    explicit top_designs(std::size_t k) : k_(k) { kept_.reserve(k + 1); }
+
+    void offer(design<N>&& d) {
+        ++evaluated_;
+        if (!best_any_ || ranks_before(d, *best_any_)) best_any_ = d;
+        if (!d.holds()) return;
+        if (kept_.size() == k_ && !ranks_before(d, kept_.back())) return;
+        auto at = std::upper_bound(kept_.begin(), kept_.end(), d,
+                                   [](const design<N>& x, const design<N>& y) { return ranks_before(x, y); });
+        kept_.insert(at, std::move(d));
+        if (kept_.size() > k_) kept_.pop_back();
+    }
+    /// The margin a new design must reach to be kept: 0 (it must hold) until k are kept.
+    double threshold() const noexcept {
+        return kept_.size() == k_ ? kept_.back().margin : 0.0;
+    }
+    std::vector<design<N>> take() && { return std::move(kept_); }
+    const std::optional<design<N>>& best_any() const noexcept { return best_any_; }
+    std::uint64_t evaluated() const noexcept { return evaluated_; }
+
+private:
+    std::size_t k_;
+    std::vector<design<N>> kept_;
+    std::optional<design<N>> best_any_;
+    std::uint64_t evaluated_ = 0;
+};
+
+template <DesignableNetwork N>
+std::string parts_text(const design<N>& d) {
+    std::string s;
+    for (std::size_t i = 0; i < d.parts.size(); ++i) {
+        if (i) s += ", ";
+        s += std::string(N::design_slots[i].name) + " = ";
+        const double v = d.parts[i].value;
+        s += N::design_slots[i].kind == part_kind::resistor ? format(resistance::from_value(v))
+                                                            : format(capacitance::from_value(v));
+    }
+    return s;
+}
+
+inline std::string metric_value_text(std::string_view unit, double v) {
+    if (unit == "s") return format(duration::from_value(v));
+    if (unit == "Hz") return format(frequency::from_value(v));
+    if (unit == "V") return format(voltage::from_value(v));
+    if (unit == "\u03A9") return format(resistance::from_value(v));
+    if (unit == "F") return format(capacitance::from_value(v));
+    return format_percent(v);
+}
+
+template <DesignableNetwork N>
+void explain_infeasible(synthesis_result<N>& r, const std::vector<requirement>& reqs,
+                        const std::optional<design<N>>& best) {
+    if (!best) return;
+    const requirement& q = reqs[best->tight_requirement];
+    const auto& info = N::metrics[q.metric];
+    const double lo = best->worst_min[q.metric], hi = best->worst_max[q.metric];
+    const std::string name(info.name);
+    const std::string window = "[" + (std::isfinite(q.low) ? metric_value_text(info.unit, q.low) : "-inf") + ", " +
+                               (std::isfinite(q.high) ? metric_value_text(info.unit, q.high) : "inf") + "]";
+    const std::string spread = metric_value_text(info.unit, lo) + " to " + metric_value_text(info.unit, hi);
+    if (std::isfinite(q.low) && std::isfinite(q.high) && (hi - lo) > (q.high - q.low)) {
+        r.why = infeasibility::tolerance_too_wide;
+        r.reason = "no design holds " + name + " within " + window +
+                   ": the parts' tolerances and operating ranges alone spread it wider than the window (the best " +
+                   "candidate, " + parts_text(*best) + ", spans " + spread + ")";
+    } else {
+        r.why = infeasibility::out_of_reach;
+        r.reason = "no design holds " + name + " within " + window + ": the value sets do not reach it (the " +
+                   "closest candidate, " + parts_text(*best) + ", spans " + spread + ", " +
+                   (best->tight_at_high ? "above the maximum" : "below the minimum") + ")";
+    }
+}
+
+template <std::size_t S>
+void check_candidates(const std::array<std::vector<candidate_value>, S>& c) {
+    for (std::size_t s = 0; s < S; ++s) {
+        if (c[s].empty())
+            throw invalid_argument("synthesize: candidates for slot " + std::to_string(s) +
+                                   " = empty is invalid; expected at least one value");
+        for (std::size_t i = 0; i < c[s].size(); ++i) {
+            if (!(c[s][i].value > 0.0 && std::isfinite(c[s][i].value)))
+                throw invalid_argument("synthesize: candidate value " + quoted_value(c[s][i].value) + " of slot " +
+                                       std::to_string(s) + " is invalid; expected a positive, finite value");
+            if (i && !(c[s][i - 1].value <= c[s][i].value))
+                throw invalid_argument("synthesize: candidates for slot " + std::to_string(s) +
+                                       " are invalid; expected them sorted by value");
+        }
+    }
+}
+
+template <DesignableNetwork N>
+void exhaustive_search(const N& base, const std::vector<requirement>& reqs,
+                       const std::array<std::vector<candidate_value>, N::design_slots.size()>& cands,
+                       top_designs<N>& top) {
+    constexpr std::size_t S = N::design_slots.size();
+    std::array<std::size_t, S> idx{};
+    for (;;) {
+        std::array<candidate_value, S> parts;
+        for (std::size_t s = 0; s < S; ++s) parts[s] = cands[s][idx[s]];
+        top.offer(score_design(base, reqs, parts));
+        std::size_t s = 0;
+        while (s < S && ++idx[s] == cands[s].size()) idx[s++] = 0;
+        if (s == S) return;
+    }
+}
+
+/// Picks the slot to solve for and the requirement to aim at: the slot with the
+/// most candidates among those the network can solve for that requirement.
+template <SolvableNetwork N>
+std::optional<std::pair<std::size_t, std::size_t>> choose_solved_slot(
+    const N& base, const std::vector<requirement>& reqs,
+    const std::array<std::vector<candidate_value>, N::design_slots.size()>& cands) {
+    constexpr std::size_t S = N::design_slots.size();
+    std::optional<std::pair<std::size_t, std::size_t>> best;
+    std::array<double, S> mid{};
+    for (std::size_t s = 0; s < S; ++s) mid[s] = cands[s][cands[s].size() / 2].value;
+    for (std::size_t s = 0; s < S; ++s) {
+        for (std::size_t q = 0; q < reqs.size(); ++q) {
+            const double target = std::isfinite(reqs[q].low) && std::isfinite(reqs[q].high)
+                                      ? (reqs[q].low + reqs[q].high) / 2.0
+                                      : (std::isfinite(reqs[q].low) ? reqs[q].low : reqs[q].high);
+            const double v = base.solve_slot(s, reqs[q].metric, target, mid);
+            if (std::isnan(v)) continue;
+            if (!best || cands[s].size() > cands[best->first].size()) best = std::pair{s, q};
+            break;
+        }
+    }
+    return best;
+}
+
+/// The margin of `parts` with the solved slot bought at tolerance `t`.
+template <DesignableNetwork N>
+double optimistic_margin(const N& base, const std::vector<requirement>& reqs,
+                         std::array<candidate_value, N::design_slots.size()> parts, std::size_t solved, tolerance t) {
+    parts[solved].tol = t;
+    return score_design(base, reqs, parts).margin;
+}
+
+template <SolvableNetwork N>
+void fast_search(const N& base, const std::vector<requirement>& reqs,
+                 const std::array<std::vector<candidate_value>, N::design_slots.size()>& cands, std::size_t solved,
+                 std::size_t aim, top_designs<N>& top) {
+    constexpr std::size_t S = N::design_slots.size();
+    const requirement& q = reqs[aim];
+    const double target = std::isfinite(q.low) && std::isfinite(q.high) ? (q.low + q.high) / 2.0
+                                                                         : (std::isfinite(q.low) ? q.low : q.high);
+    const auto& line = cands[solved];
+    tolerance tightest = line.front().tol;
+    bool uniform = true;
+    for (const auto& c : line) {
+        uniform = uniform && c.tol == line.front().tol;
+        tightest.minus = std::min(tightest.minus, c.tol.minus);
+        tightest.plus = std::min(tightest.plus, c.tol.plus);
+    }
+    std::array<std::size_t, S> idx{};
+    for (;;) {
+        std::array<candidate_value, S> parts;
+        std::array<double, S> values{};
+        for (std::size_t s = 0; s < S; ++s)
+            if (s != solved) {
+                parts[s] = cands[s][idx[s]];
+                values[s] = parts[s].value;
+            }
+        const double ideal = base.solve_slot(solved, q.metric, target, values);
+        // Start at the first value >= ideal (or an end when the ideal is outside).
+        std::size_t start = 0;
+        if (std::isfinite(ideal))
+            start = static_cast<std::size_t>(
+                std::lower_bound(line.begin(), line.end(), ideal,
+                                 [](const candidate_value& c, double v) { return c.value < v; }) -
+                line.begin());
+        else if (ideal > 0.0)
+            start = line.size();
+        // Walk one way from `from`; `previous` is the margin of the value just before
+        // it on this walk (NaN when none, so the first value never stops the walk). The margin is unimodal along the
+        // line, so once it falls below what could still be kept it only falls.
+        auto walk = [&](std::ptrdiff_t from, std::ptrdiff_t step, double previous) {
+            double first = std::numeric_limits<double>::quiet_NaN();
+            for (std::ptrdiff_t i = from; i >= 0 && i < static_cast<std::ptrdiff_t>(line.size()); i += step) {
+                parts[solved] = line[static_cast<std::size_t>(i)];
+                auto d = score_design(base, reqs, parts);
+                // With mixed tolerances on the line, decide on the optimistic margin
+                // (the line's tightest tolerance), which is unimodal and never smaller.
+                const double m = uniform ? d.margin : optimistic_margin(base, reqs, parts, solved, tightest);
+                if (std::isnan(first)) first = m;
+                top.offer(std::move(d));
+                if (m < previous && rank_key(m) < rank_key(top.threshold())) break;
+                previous = m;
+            }
+            return first;
+        };
+        const double at_start = walk(static_cast<std::ptrdiff_t>(start), 1, std::numeric_limits<double>::quiet_NaN());
+        walk(static_cast<std::ptrdiff_t>(start) - 1, -1, at_start);
+        std::size_t s = 0;
+        while (s < S && (s == solved || ++idx[s] == cands[s].size())) {
+            if (s != solved) idx[s] = 0;
+            ++s;
+        }
+        if (s == S) return;
+    }
+}
+
+}  // namespace detail
+
+/// Chooses parts for `base`'s design slots from `cands` (one sorted list per
+/// slot) so that every requirement of `spec` holds at worst case, and returns
+/// the best `options.top_k` designs. An infeasible spec is not an error: the
+/// result is empty and `reason` names the ruling constraint.
+template <DesignableNetwork N>
+synthesis_result<N> synthesize(const N& base, const timing_spec<N>& spec,
+                               const std::array<std::vector<candidate_value>, N::design_slots.size()>& cands,
+                               synthesis_options options = {}) {
+    if (options.top_k < 1 || options.top_k > 1000)
+        throw invalid_argument("synthesize: top_k = " + std::to_string(options.top_k) +
+                               " is invalid; expected 1 to 1000");
+    const auto& reqs = spec.requirements();
+    if (reqs.empty()) throw invalid_argument("synthesize: spec = empty is invalid; expected at least one window");
+    detail::check_candidates(cands);
+    detail::top_designs<N> top(options.top_k);
+    bool fast = false;
+    if constexpr (SolvableNetwork<N>) {
+        if (options.method != search_method::exhaustive) {
+            if (auto pick = detail::choose_solved_slot(base, reqs, cands)) {
+                detail::fast_search(base, reqs, cands, pick->first, pick->second, top);
+                fast = true;
+            } else if (options.method == search_method::fast) {
+                throw invalid_argument("synthesize: method = fast is invalid for this spec; expected a window on a "
+                                       "metric the network can solve a slot for");
+            }
+        }
+    } else {
+        if (options.method == search_method::fast)
+            throw invalid_argument("synthesize: method = fast is invalid for this network; expected a "
+                                   "SolvableNetwork (it has no solve_slot)");
+    }
+    if (!fast) detail::exhaustive_search(base, reqs, cands, top);
+    synthesis_result<N> r;
+    r.evaluated = top.evaluated();
+    const auto best = top.best_any();
+    r.designs = std::move(top).take();
+    if (r.designs.empty()) detail::explain_infeasible(r, reqs, best);
+    return r;
+}
+
+/// One line per design: parts, then each required metric's worst-case range and the margin.
+template <DesignableNetwork N>
+std::string describe(const design<N>& d, const timing_spec<N>& spec) {
+    std::string s = detail::parts_text(d) + ":";
+    for (const auto& q : spec.requirements()) {
+        const auto& info = N::metrics[q.metric];
+        s += " " + std::string(info.name) + " " + detail::metric_value_text(info.unit, d.worst_min[q.metric]) +
+             " .. " + detail::metric_value_text(info.unit, d.worst_max[q.metric]) + ";";
+    }
+    const auto& tight = spec.requirements()[d.tight_requirement];
+    s += " margin " + format_percent(d.margin) + " (" + std::string(N::metrics[tight.metric].name) +
+         (d.tight_at_high ? " max)" : " min)");
+    return s;
+}
+
+}  // namespace tauforge
