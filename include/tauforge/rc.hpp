@@ -16,6 +16,7 @@
 
 #include <cmath>
 #include <cstdint>
+#include <numbers>
 #include <string>
 #include <utility>
 
@@ -29,6 +30,7 @@ struct rc_drive {
 
 /// A source that rises (or falls) linearly from `v_begin` to `v_end` over
 /// `rise_time`, then stays at `v_end`: a supply ramping up at power-on.
+/// A rise_time of 0 is a step to `v_end` at t = 0.
 struct ramp_input {
     voltage v_begin;
     voltage v_end;
@@ -37,11 +39,23 @@ struct ramp_input {
 
 namespace detail::rc {
 
-[[noreturn]] inline void threshold_out_of_reach(std::string_view function, double vs, double vf, double vth) {
+/// `start_allowed`: whether a threshold equal to the start is valid (t = 0) for the caller.
+[[noreturn]] inline void threshold_out_of_reach(std::string_view function, double vs, double vf, double vth,
+                                                bool start_allowed = true) {
     throw domain_error(std::string(function) + ": v_threshold = " + value_text(voltage::from_value(vth)) +
                        " is not reached from v_start = " + value_text(voltage::from_value(vs)) +
                        " towards v_final = " + value_text(voltage::from_value(vf)) +
-                       "; expected a threshold strictly between start and final value, or equal to the start");
+                       "; expected a threshold strictly between start and final value" +
+                       (start_allowed ? ", or equal to the start" : ""));
+}
+
+/// For the ramp input: the capacitor may first move away from v_end, so say what is
+/// supported rather than that the threshold is never reached.
+[[noreturn]] inline void ramp_threshold_outside(std::string_view function, double v_cap0, double v_end, double vth) {
+    throw domain_error(std::string(function) + ": v_threshold = " + value_text(voltage::from_value(vth)) +
+                       " does not lie between v_cap_start = " + value_text(voltage::from_value(v_cap0)) +
+                       " and v_end = " + value_text(voltage::from_value(v_end)) +
+                       "; expected a threshold strictly between them, or equal to v_cap_start");
 }
 
 inline void check_tau(std::string_view function, double tau) {
@@ -54,6 +68,10 @@ inline void check_voltages(std::string_view function, double vs, double vf, doub
     require_finite(function, "v_threshold", voltage::from_value(vth), "a finite voltage");
 }
 
+/// ln((vs - vf) / (vth - vf)) from the two gaps vs - vth and vth - vf, as
+/// log1p(start_gap / final_gap): the one place of the crossing-time logarithm.
+inline double log_ratio_from_gaps(double start_gap, double final_gap) { return std::log1p(start_gap / final_gap); }
+
 /// ln((vs - vf) / (vth - vf)) computed as log1p((vs - vth) / (vth - vf)), so a
 /// threshold near the start keeps full precision. Throws if vth is not reached.
 inline double log_ratio_to_threshold(std::string_view function, double vs, double vf, double vth) {
@@ -61,12 +79,17 @@ inline double log_ratio_to_threshold(std::string_view function, double vs, doubl
     if (vth == vs) return 0.0;
     const bool between = (vs < vth && vth < vf) || (vf < vth && vth < vs);
     if (!between) threshold_out_of_reach(function, vs, vf, vth);
-    return std::log1p((vs - vth) / (vth - vf));
+    return log_ratio_from_gaps(vs - vth, vth - vf);
 }
 
-/// v(t) = vf + (vs - vf) e^(-t/tau).
+/// v(t) = vf + (vs - vf) e^(-t/tau). While e^(-t/tau) > 1/2 it is evaluated as
+/// vs + (vs - vf) expm1(-t/tau), so that a small move away from vs (say from 0 V)
+/// keeps full relative precision; later as written, so that the small remaining
+/// distance to vf does.
 inline double voltage_at(double vs, double vf, double tau, double t) {
-    return vf + (vs - vf) * std::exp(-t / tau);
+    const double x = t / tau;
+    if (x < std::numbers::ln2) return vs + (vs - vf) * std::expm1(-x);
+    return vf + (vs - vf) * std::exp(-x);
 }
 
 /// Time for v to go from vs to vth while approaching vf with time constant tau.
@@ -88,11 +111,17 @@ inline double ramp_lag_term(double x) {
     return x + std::expm1(-x);
 }
 
-/// Capacitor voltage at t while the input ramps (0 <= t <= rise_time), from v_cap0.
-///   v(t) - v_cap0 = (v_begin - v_cap0)(1 - e^(-x)) + slope tau (x - 1 + e^(-x)),  x = t / tau
-inline double ramp_voltage_during(double v_begin, double slope, double v_cap0, double tau, double t) {
+/// The capacitor's change v(t) - v_cap0 while the input ramps (0 <= t <= rise_time):
+///   v(t) - v_cap0 = (v_begin - v_cap0)(1 - e^(-x)) + slope tau (x - 1 + e^(-x)),  x = t / tau.
+/// Kept apart from v_cap0 so that a threshold near v_cap0 is compared without cancellation.
+inline double ramp_change_during(double v_begin, double slope, double v_cap0, double tau, double t) {
     const double x = t / tau;
-    return v_cap0 - (v_begin - v_cap0) * std::expm1(-x) + slope * tau * ramp_lag_term(x);
+    return -(v_begin - v_cap0) * std::expm1(-x) + slope * tau * ramp_lag_term(x);
+}
+
+/// Capacitor voltage at t while the input ramps (0 <= t <= rise_time), from v_cap0.
+inline double ramp_voltage_during(double v_begin, double slope, double v_cap0, double tau, double t) {
+    return v_cap0 + ramp_change_during(v_begin, slope, v_cap0, tau, t);
 }
 
 inline void check_ramp(std::string_view function, double v_begin, double v_end, double rise, double v_cap0,
@@ -104,44 +133,84 @@ inline void check_ramp(std::string_view function, double v_begin, double v_end, 
     check_tau(function, tau);
 }
 
+/// Capacitor voltage at t for the ramp input; errors are reported as from the public voltage_at.
 inline double ramp_voltage_at(double v_begin, double v_end, double rise, double v_cap0, double tau, double t) {
-    check_ramp("ramp_voltage_at", v_begin, v_end, rise, v_cap0, tau);
-    require_non_negative("ramp_voltage_at", "t", duration::from_value(t), "a non-negative, finite time");
-    if (t <= rise) return ramp_voltage_during(v_begin, (v_end - v_begin) / rise, v_cap0, tau, t);
-    const double v_rise = rise > 0 ? ramp_voltage_during(v_begin, (v_end - v_begin) / rise, v_cap0, tau, rise) : v_cap0;
-    return voltage_at(v_rise, v_end, tau, t - rise);
+    constexpr std::string_view fn = "voltage_at";
+    check_ramp(fn, v_begin, v_end, rise, v_cap0, tau);
+    require_non_negative(fn, "t", duration::from_value(t), "a non-negative, finite time");
+    if (rise == 0.0) return voltage_at(v_cap0, v_end, tau, t);  // a step: no slope to divide by
+    const double slope = (v_end - v_begin) / rise;
+    if (t <= rise) return ramp_voltage_during(v_begin, slope, v_cap0, tau, t);
+    return voltage_at(ramp_voltage_during(v_begin, slope, v_cap0, tau, rise), v_end, tau, t - rise);
 }
 
 /// First time the capacitor, starting at v_cap0, crosses vth while the input ramps
-/// from v_begin to v_end over `rise` and then stays at v_end.
-/// The threshold must lie strictly between v_cap0 and v_end (or equal v_cap0).
-/// Within the ramp, the root is bracketed and found with TOMS 748 to about 2e-13
-/// relative; after it the closed form applies.
+/// from v_begin to v_end over `rise` and then stays at v_end; errors are reported as
+/// from the public crossing_time. The threshold must lie strictly between v_cap0 and
+/// v_end (or equal v_cap0): a threshold beyond v_cap0 on the far side from v_end, which
+/// a capacitor first moving away may cross, is rejected.
+/// Within the ramp, the root is bracketed and found with TOMS 748 down to a bracket of
+/// 4 machine epsilons relative (measured: within 2e-14 of a 50-digit reference, at most
+/// about 75 iterations); after it the closed form applies.
 inline double ramp_crossing_time(double v_begin, double v_end, double rise, double v_cap0, double vth, double tau) {
-    constexpr std::string_view fn = "ramp_crossing_time";
+    constexpr std::string_view fn = "crossing_time";
     check_ramp(fn, v_begin, v_end, rise, v_cap0, tau);
     require_finite(fn, "v_threshold", voltage::from_value(vth), "a finite voltage");
     if (vth == v_cap0) return 0.0;
     const bool between = (v_cap0 < vth && vth < v_end) || (v_end < vth && vth < v_cap0);
-    if (!between) threshold_out_of_reach(fn, v_cap0, v_end, vth);
-    if (rise == 0.0) return crossing_time(v_cap0, v_end, vth, tau);
+    if (!between) ramp_threshold_outside(fn, v_cap0, v_end, vth);
+    if (rise == 0.0) return tau * log_ratio_from_gaps(v_cap0 - vth, vth - v_end);
     const double slope = (v_end - v_begin) / rise;
     // v' is monotone during the ramp (v'' = (slope - v') / tau), so v has at most one
     // extremum and crosses a threshold beyond the start only once.
+    // f < 0 before the crossing; it is formed from the gap v_cap0 - vth and the change
+    // v - v_cap0, never from v itself, so a threshold close to v_cap0 keeps its precision.
     const double sign = v_end > v_cap0 ? 1.0 : -1.0;
-    auto f = [&](double t) { return sign * (ramp_voltage_during(v_begin, slope, v_cap0, tau, t) - vth); };
+    const double start_gap = v_cap0 - vth;
+    auto f = [&](double t) { return sign * (start_gap + ramp_change_during(v_begin, slope, v_cap0, tau, t)); };
     const double f_end = f(rise);
-    if (f_end < 0.0) {
-        const double v_rise = ramp_voltage_during(v_begin, slope, v_cap0, tau, rise);
-        return rise + crossing_time(v_rise, v_end, vth, tau);
-    }
+    // Not crossed during the ramp: a step from v(rise) towards v_end, whose gap to the
+    // threshold, v(rise) - vth = sign f_end, is already at hand without cancellation.
+    if (f_end < 0.0) return rise + tau * log_ratio_from_gaps(sign * f_end, vth - v_end);
     if (f_end == 0.0) return rise;
     // f(0) < 0 here; if the capacitor first moves away (v_begin beyond v_cap0 on the
     // wrong side), f stays negative until its minimum, and the bracket still holds.
     std::uintmax_t iterations = 200;
     const auto [lo, hi] = boost::math::tools::toms748_solve(f, 0.0, rise, f(0.0), f_end,
-                                                            boost::math::tools::eps_tolerance<double>(43), iterations);
+                                                            boost::math::tools::eps_tolerance<double>(), iterations);
     return lo + (hi - lo) / 2.0;
+}
+
+/// The periodic steady state of a first-order stage (time constant tau) whose source
+/// sits at v_high for t_high, then at v_low for t_low, repeating. With
+/// a1 = e^(-t_high/tau), a2 = e^(-t_low/tau), a = a1 a2 and d = v_high - v_low:
+///   at_fall = v_low + d (1 - a1) / (1 - a)      (end of the high interval: the extreme towards v_high)
+///   at_rise = v_low + d a2 (1 - a1) / (1 - a)   (end of the low interval: the extreme towards v_low)
+///   swing   = at_fall - at_rise = d (1 - a1)(1 - a2) / (1 - a)
+/// Every factor 1 - e^(-x) is formed with expm1, so a small swing keeps full relative
+/// precision. rise_gap = v_high - at_rise = d (1 - a2) / (1 - a) and
+/// fall_gap = at_fall - v_low = d (1 - a1) / (1 - a) are the distances the stage still
+/// has to go when the source switches, also without cancellation.
+struct periodic_response {
+    double at_rise = 0.0;   ///< voltage when the source steps to v_high
+    double at_fall = 0.0;   ///< voltage when the source steps back to v_low
+    double swing = 0.0;     ///< at_fall - at_rise
+    double rise_gap = 0.0;  ///< v_high - at_rise
+    double fall_gap = 0.0;  ///< at_fall - v_low
+};
+
+/// See periodic_response; tau > 0, t_high and t_low >= 0 with t_high + t_low > 0 (unchecked).
+inline periodic_response periodic_steady_state(double v_high, double v_low, double t_high, double t_low, double tau) {
+    const double d = v_high - v_low;
+    const double g1 = -std::expm1(-t_high / tau), g2 = -std::expm1(-t_low / tau);
+    const double g = -std::expm1(-(t_high + t_low) / tau);
+    periodic_response p;
+    p.fall_gap = d * g1 / g;
+    p.rise_gap = d * g2 / g;
+    p.swing = d * g1 * g2 / g;
+    p.at_fall = v_low + p.fall_gap;
+    p.at_rise = v_low + d * g1 * (1.0 - g2) / g;
+    return p;
 }
 
 }  // namespace detail::rc
@@ -166,13 +235,20 @@ inline duration crossing_time(Voltage auto v_start, Voltage auto v_final, Voltag
 }
 
 /// The time constant for which the crossing from v_start to v_threshold takes time t.
+/// Throws `domain_error` unless the threshold lies strictly between start and final value.
 inline duration time_constant_for(Voltage auto v_start, Voltage auto v_final, Voltage auto v_threshold,
                                   Duration auto t) {
     constexpr std::string_view fn = "time_constant_for";
     detail::require_positive(fn, "t", t, "a positive, finite time");
-    if (v_threshold == v_start) detail::rc::threshold_out_of_reach(fn, v_start.value(), v_final.value(), v_threshold.value());
-    return duration::from_value(t.value() / detail::rc::log_ratio_to_threshold(fn, v_start.value(), v_final.value(),
-                                                                              v_threshold.value()));
+    detail::rc::check_voltages(fn, v_start.value(), v_final.value(), v_threshold.value());
+    const double vs = v_start.value(), vf = v_final.value(), vth = v_threshold.value();
+    if (vth == vs)
+        throw domain_error(std::string(fn) + ": v_threshold = " + detail::value_text(v_threshold) +
+                           " equals v_start, which is reached at t = 0 for every time constant, not after t = " +
+                           detail::value_text(t) + "; expected a threshold strictly between start and final value");
+    if (!((vs < vth && vth < vf) || (vf < vth && vth < vs)))
+        detail::rc::threshold_out_of_reach(fn, vs, vf, vth, /*start_allowed=*/false);
+    return duration::from_value(t.value() / detail::rc::log_ratio_from_gaps(vs - vth, vth - vf));
 }
 
 /// Time until the capacitor is within `fraction` of the step from its final
@@ -203,7 +279,8 @@ inline rc_drive with_shunt(Voltage auto v_source, Resistance auto r_source, Capa
     detail::require_finite(fn, "v_source", v_source, "a finite voltage");
     detail::require_positive(fn, "r_source", r_source, "a positive, finite resistance");
     detail::require_positive(fn, "c", c, "a positive, finite capacitance");
-    detail::require_positive(fn, "r_shunt", r_shunt, "a positive, finite resistance (no shunt: omit it)");
+    detail::require_positive(fn, "r_shunt", r_shunt,
+                             "a positive, finite resistance (without a shunt, tau is r_source c)");
     detail::require_finite(fn, "v_shunt", v_shunt, "a finite voltage");
     const double rs = r_source.value(), rp = r_shunt.value();
     const double vf = (v_source.value() * rp + v_shunt.value() * rs) / (rs + rp);
@@ -229,7 +306,9 @@ inline voltage voltage_at(const ramp_input& in, Voltage auto v_cap_start, Durati
 }
 
 /// First time the capacitor, from v_cap_start, crosses v_threshold for a ramp input.
-/// The threshold must lie strictly between v_cap_start and in.v_end, or equal v_cap_start.
+/// The threshold must lie strictly between v_cap_start and in.v_end, or equal v_cap_start
+/// (then t = 0); otherwise `domain_error`, also for a threshold that a capacitor first
+/// moving away from in.v_end would cross on the way.
 inline duration crossing_time(const ramp_input& in, Voltage auto v_cap_start, Voltage auto v_threshold,
                               Duration auto tau) {
     return duration::from_value(detail::rc::ramp_crossing_time(in.v_begin.value(), in.v_end.value(),
