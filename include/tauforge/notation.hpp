@@ -227,6 +227,38 @@ inline std::string percent_text(double fraction, const format_options& opt) {
 
 }  // namespace detail
 
+/// A value in the SI base unit named by its symbol ("Ω", "F", "s", "V", "Hz",
+/// "A", ...) in engineering notation; a dimensionless unit ("" or a ratio
+/// such as "V/V") is written as a plain number without a prefix. This is how
+/// networks' parameters and metrics, known only by their unit symbol, are shown.
+inline std::string format_si(double v, std::string_view unit, format_options opt = {}) {
+    const bool ratio = unit.empty() || unit.find('/') != std::string_view::npos;
+    if (opt.chars == charset::ascii && unit == unit_symbol<resistance>::unicode) unit = unit_symbol<resistance>::ascii;
+    std::string out;
+    int exponent = 0;
+    if (std::isnan(v)) {
+        out = "nan";
+    } else if (std::isinf(v)) {
+        out = v < 0 ? "-inf" : "inf";
+    } else if (ratio) {
+        if (opt.digits < 1 || opt.digits > 17) (void)detail::split_engineering(v, opt.digits, opt.trailing_zeros);
+        char buf[64];
+        std::snprintf(buf, sizeof buf, opt.trailing_zeros ? "%#.*g" : "%.*g", opt.digits, v);
+        out = buf;
+    } else {
+        auto parts = detail::split_engineering(v, opt.digits, opt.trailing_zeros);
+        out = std::move(parts.mantissa);
+        exponent = parts.exponent;
+    }
+    const std::string_view prefix = ratio ? std::string_view{} : detail::prefix_text(exponent, opt.chars);
+    if (!unit.empty() || !prefix.empty()) {
+        out += ' ';
+        out += prefix;
+        out += unit;
+    }
+    return out;
+}
+
 /// A quantity in engineering notation with an SI prefix: 4700 Ω -> "4.7 kΩ".
 /// The value is rounded to `digits` significant figures first, then the prefix is
 /// chosen (999.96 Ω -> "1 kΩ"). Beyond femto .. tera the number gets an exponent
@@ -237,26 +269,7 @@ inline std::string percent_text(double fraction, const format_options& opt) {
 template <class Unit>
 std::string format(si_quantity<Unit> q, format_options opt = {}) {
     using Q = si_quantity<Unit>;
-    const std::string_view unit = opt.chars == charset::unicode ? unit_symbol<Q>::unicode : unit_symbol<Q>::ascii;
-    const double v = q.value();
-    std::string out;
-    int exponent = 0;
-    if (std::isnan(v)) {
-        out = "nan";
-    } else if (std::isinf(v)) {
-        out = v < 0 ? "-inf" : "inf";
-    } else {
-        auto parts = detail::split_engineering(v, opt.digits, opt.trailing_zeros);
-        out = std::move(parts.mantissa);
-        exponent = parts.exponent;
-    }
-    const std::string_view prefix = detail::prefix_text(exponent, opt.chars);
-    if (!unit.empty() || !prefix.empty()) {
-        out += ' ';
-        out += prefix;
-        out += unit;
-    }
-    return out;
+    return format_si(q.value(), unit_symbol<Q>::unicode, opt);
 }
 
 /// A temperature as "-40 °C" (ASCII: "-40 degC").

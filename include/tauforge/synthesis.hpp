@@ -22,6 +22,7 @@
 /// the margin is unimodal along that slot (true when every metric is monotone
 /// in it); tests check the equality on random specs.
 
+#include "tauforge/analysis/common.hpp"
 #include "tauforge/analysis/worst_case.hpp"
 #include "tauforge/concepts.hpp"
 #include "tauforge/detail/validate.hpp"
@@ -41,12 +42,10 @@
 
 namespace tauforge {
 
-/// One requirement: metric number `metric` stays within [low, high] (SI base
-/// unit) at worst case. An open side is +/- infinity.
+/// One requirement: metric number `metric` stays inside `window` at worst case.
 struct requirement {
     std::size_t metric = 0;
-    double low = -std::numeric_limits<double>::infinity();
-    double high = std::numeric_limits<double>::infinity();
+    spec_window window{};
 };
 
 /// The timing windows a design must hold, by metric name.
@@ -119,7 +118,10 @@ private:
             throw invalid_argument(name + " window [" + detail::quoted_value(low) + ", " +
                                    detail::quoted_value(high) + "] " + std::string(N::metrics[m].unit) +
                                    " is invalid; expected low < high");
-        reqs_.push_back({m, low, high});
+        spec_window w;
+        if (std::isfinite(low)) w.low = low;
+        if (std::isfinite(high)) w.high = high;
+        reqs_.push_back({m, w});
         return *this;
     }
 
@@ -202,20 +204,26 @@ struct synthesis_result {
 
 namespace detail {
 
-inline double window_margin(const requirement& r, double lo, double hi, bool& at_high) {
-    const bool has_low = std::isfinite(r.low), has_high = std::isfinite(r.high);
-    const double scale = has_low && has_high ? (r.high - r.low) / 2.0
-                                             : std::abs(has_low ? r.low : r.high);
+/// The margin of [lo, hi] inside window w, as a fraction of its half-width
+/// (one-sided: of the edge's magnitude, or absolute for an edge at 0).
+inline double window_margin(const spec_window& w, double lo, double hi, bool& at_high) {
+    const double scale = w.low && w.high ? (*w.high - *w.low) / 2.0 : std::abs(w.low ? *w.low : *w.high);
     const double s = scale > 0.0 ? scale : 1.0;
-    const double m_low = has_low ? (lo - r.low) / s : std::numeric_limits<double>::infinity();
-    const double m_high = has_high ? (r.high - hi) / s : std::numeric_limits<double>::infinity();
+    const double m_low = w.low ? (lo - *w.low) / s : std::numeric_limits<double>::infinity();
+    const double m_high = w.high ? (*w.high - hi) / s : std::numeric_limits<double>::infinity();
     at_high = m_high < m_low;
     return std::min(m_low, m_high);
 }
 
-inline double window_error(const requirement& r, double v) {
-    if (!(std::isfinite(r.low) && std::isfinite(r.high))) return 0.0;
-    return std::abs(v - (r.low + r.high) / 2.0) / ((r.high - r.low) / 2.0);
+/// |v - centre| / half-width for a two-sided window; 0 for a one-sided one.
+inline double window_error(const spec_window& w, double v) {
+    if (!(w.low && w.high)) return 0.0;
+    return std::abs(v - (*w.low + *w.high) / 2.0) / ((*w.high - *w.low) / 2.0);
+}
+
+/// The value synthesis aims a solved slot at: the window's centre, or its one edge.
+inline double window_target(const spec_window& w) {
+    return w.low && w.high ? (*w.low + *w.high) / 2.0 : (w.low ? *w.low : *w.high);
 }
 
 /// Scores one choice of parts: worst-case bounds, margin, tight edge, nominal error.
@@ -237,13 +245,14 @@ design<N> score_design(const N& base, const std::vector<requirement>& reqs,
     d.margin = std::numeric_limits<double>::infinity();
     for (std::size_t i = 0; i < reqs.size(); ++i) {
         bool at_high = false;
-        const double m = window_margin(reqs[i], d.worst_min[reqs[i].metric], d.worst_max[reqs[i].metric], at_high);
+        const double m =
+            window_margin(reqs[i].window, d.worst_min[reqs[i].metric], d.worst_max[reqs[i].metric], at_high);
         if (m < d.margin) {
             d.margin = m;
             d.tight_requirement = i;
             d.tight_at_high = at_high;
         }
-        d.nominal_error = std::max(d.nominal_error, window_error(reqs[i], d.nominal[reqs[i].metric]));
+        d.nominal_error = std::max(d.nominal_error, window_error(reqs[i].window, d.nominal[reqs[i].metric]));
     }
     return d;
 }
@@ -314,14 +323,7 @@ std::string parts_text(const design<N>& d) {
     return s;
 }
 
-inline std::string metric_value_text(std::string_view unit, double v) {
-    if (unit == "s") return format(duration::from_value(v));
-    if (unit == "Hz") return format(frequency::from_value(v));
-    if (unit == "V") return format(voltage::from_value(v));
-    if (unit == "\u03A9") return format(resistance::from_value(v));
-    if (unit == "F") return format(capacitance::from_value(v));
-    return format_percent(v);
-}
+inline std::string metric_value_text(std::string_view unit, double v) { return format_si(v, unit); }
 
 template <DesignableNetwork N>
 void explain_infeasible(synthesis_result<N>& r, const std::vector<requirement>& reqs,
@@ -331,10 +333,11 @@ void explain_infeasible(synthesis_result<N>& r, const std::vector<requirement>& 
     const auto& info = N::metrics[q.metric];
     const double lo = best->worst_min[q.metric], hi = best->worst_max[q.metric];
     const std::string name(info.name);
-    const std::string window = "[" + (std::isfinite(q.low) ? metric_value_text(info.unit, q.low) : "-inf") + ", " +
-                               (std::isfinite(q.high) ? metric_value_text(info.unit, q.high) : "inf") + "]";
+    const auto& w = q.window;
+    const std::string window = "[" + (w.low ? metric_value_text(info.unit, *w.low) : "-inf") + ", " +
+                               (w.high ? metric_value_text(info.unit, *w.high) : "inf") + "]";
     const std::string spread = metric_value_text(info.unit, lo) + " to " + metric_value_text(info.unit, hi);
-    if (std::isfinite(q.low) && std::isfinite(q.high) && (hi - lo) > (q.high - q.low)) {
+    if (w.low && w.high && (hi - lo) > (*w.high - *w.low)) {
         r.why = infeasibility::tolerance_too_wide;
         r.reason = "no design holds " + name + " within " + window +
                    ": the parts' tolerances and operating ranges alone spread it wider than the window (the best " +
@@ -392,10 +395,7 @@ std::optional<std::pair<std::size_t, std::size_t>> choose_solved_slot(
     for (std::size_t s = 0; s < S; ++s) mid[s] = cands[s][cands[s].size() / 2].value;
     for (std::size_t s = 0; s < S; ++s) {
         for (std::size_t q = 0; q < reqs.size(); ++q) {
-            const double target = std::isfinite(reqs[q].low) && std::isfinite(reqs[q].high)
-                                      ? (reqs[q].low + reqs[q].high) / 2.0
-                                      : (std::isfinite(reqs[q].low) ? reqs[q].low : reqs[q].high);
-            const double v = base.solve_slot(s, reqs[q].metric, target, mid);
+            const double v = base.solve_slot(s, reqs[q].metric, window_target(reqs[q].window), mid);
             if (std::isnan(v)) continue;
             if (!best || cands[s].size() > cands[best->first].size()) best = std::pair{s, q};
             break;
@@ -418,8 +418,7 @@ void fast_search(const N& base, const std::vector<requirement>& reqs,
                  std::size_t aim, top_designs<N>& top) {
     constexpr std::size_t S = N::design_slots.size();
     const requirement& q = reqs[aim];
-    const double target = std::isfinite(q.low) && std::isfinite(q.high) ? (q.low + q.high) / 2.0
-                                                                         : (std::isfinite(q.low) ? q.low : q.high);
+    const double target = window_target(q.window);
     const auto& line = cands[solved];
     tolerance tightest = line.front().tol;
     bool uniform = true;
