@@ -248,3 +248,37 @@ TEST_CASE("synthesis: invalid specs and options are rejected with their reason")
                          "synthesize: candidates for slot 1 = empty is invalid; expected at least one value",
                          invalid_argument);
 }
+
+TEST_CASE("synthesis: at_least plus at_most on one metric is one window for the reason") {
+    // The same +/-10 % window as above, given as two one-sided requirements:
+    // still the parts' spread, not the value sets, rules it out.
+    rc_delay net;
+    timing_spec<rc_delay> spec;
+    spec.at_least("delay", 0.9_ms).at_most("delay", 1.1_ms);
+    const auto r = synthesize(net, spec,
+                              {candidates(value_set<resistance>::from_series(e_series::e24, 1_kohm, 1_Mohm)),
+                               candidates(value_set<capacitance>::from_series(e_series::e12, 1_nF, 1_uF))});
+    CHECK_FALSE(r.feasible());
+    CHECK(r.why == infeasibility::tolerance_too_wide);
+    CHECK(r.reason.rfind("no design holds delay within [900 \u00B5s, 1.1 ms]: the parts' tolerances", 0) == 0);
+}
+
+TEST_CASE("synthesis: candidates the network cannot evaluate fail without ending the search") {
+    // A 1 uA leak from the node: with R above (5 V - 3.33 V) / 1 uA = 1.67 Mohm
+    // the node never reaches 2/3 of the supply (derivation: the node settles at
+    // V - I R). Those candidates fail; the others are still designed.
+    rc_delay net;
+    net.leakage = ranged<current>::between(0_uA, 1_uA);
+    timing_spec<rc_delay> spec;
+    spec.around("delay", 100_ms, tolerance::symmetric(0.3));
+    const auto rs = candidates(value_set<resistance>::from_series(e_series::e12, 100_kohm, 10_Mohm));
+    const auto cs = candidates(value_set<capacitance>::from_series(e_series::e12, 10_nF, 1_uF));
+    const auto r = synthesize(net, spec, {rs, cs});
+    REQUIRE(r.feasible());
+    for (const auto& d : r.designs) CHECK(d.parts[0].value < 1.67e6);
+    // Only candidates that cannot work: the reason carries the network's own message.
+    const auto big = candidates(value_set<resistance>::from_series(e_series::e12, 2.2_Mohm, 10_Mohm));
+    const auto none = synthesize(net, spec, {big, cs});
+    CHECK_FALSE(none.feasible());
+    CHECK(none.reason.rfind("no design could be evaluated: the closest candidate, R = ", 0) == 0);
+}

@@ -67,6 +67,18 @@ concept TimingNetwork = requires(const N& n, const std::array<double, N::paramet
     { n.evaluate(x) } -> std::same_as<std::array<double, N::metrics.size()>>;
 };
 
+/// Whether corner bounds are exact for N: true unless N declares
+/// `static constexpr bool monotone = false;` because some metric can turn
+/// inside a parameter's interval (a pulse filter's ripple peaks at 50 % duty).
+/// Synthesis then scores designs with the full `worst_case` search.
+template <class N>
+inline constexpr bool monotone_network_v = [] {
+    if constexpr (requires { N::monotone; })
+        return static_cast<bool>(N::monotone);
+    else
+        return true;
+}();
+
 template <TimingNetwork N>
 inline constexpr std::size_t parameter_count_v = N::parameters.size();
 template <TimingNetwork N>

@@ -189,6 +189,7 @@ struct design {
     std::size_t tight_requirement = 0;  ///< index into spec.requirements()
     bool tight_at_high = false;         ///< whether the upper edge is the tight one
     double nominal_error = 0.0;         ///< largest |nominal - centre| / half-width
+    std::string failure;                ///< why the network could not be evaluated with these parts, if so
     /// True when every requirement holds at worst case.
     bool holds() const noexcept { return margin >= 0.0; }
 };
@@ -236,11 +237,28 @@ design<N> score_design(const N& base, const std::vector<requirement>& reqs,
     design<N> d;
     d.parts = parts;
     d.network = base.with_parts(choice);
-    const auto b = metric_bounds(d.network);
-    for (std::size_t m = 0; m < N::metrics.size(); ++m) {
-        d.nominal[m] = b[m].nominal;
-        d.worst_min[m] = b[m].low;
-        d.worst_max[m] = b[m].high;
+    try {
+        if constexpr (monotone_network_v<N>) {
+            const auto b = metric_bounds(d.network);
+            for (std::size_t m = 0; m < N::metrics.size(); ++m) {
+                d.nominal[m] = b[m].nominal;
+                d.worst_min[m] = b[m].low;
+                d.worst_max[m] = b[m].high;
+            }
+        } else {
+            const auto wc = worst_case(d.network);
+            for (std::size_t m = 0; m < N::metrics.size(); ++m) {
+                d.nominal[m] = wc[m].nominal;
+                d.worst_min[m] = wc[m].min.value;
+                d.worst_max[m] = wc[m].max.value;
+            }
+        }
+    } catch (const domain_error& e) {
+        // Valid parts that cannot work together (a threshold the node never
+        // reaches at some corner): the candidate fails, it does not end the search.
+        d.margin = -std::numeric_limits<double>::infinity();
+        d.failure = e.what();
+        return d;
     }
     d.margin = std::numeric_limits<double>::infinity();
     for (std::size_t i = 0; i < reqs.size(); ++i) {
@@ -329,11 +347,23 @@ template <DesignableNetwork N>
 void explain_infeasible(synthesis_result<N>& r, const std::vector<requirement>& reqs,
                         const std::optional<design<N>>& best) {
     if (!best) return;
+    if (!best->failure.empty()) {
+        r.why = infeasibility::out_of_reach;
+        r.reason = "no design could be evaluated: the closest candidate, " + parts_text(*best) + ", fails with: " +
+                   best->failure;
+        return;
+    }
     const requirement& q = reqs[best->tight_requirement];
     const auto& info = N::metrics[q.metric];
+    // Every requirement on the tight metric together (at_least + at_most is one window).
+    spec_window w;
+    for (const auto& other : reqs)
+        if (other.metric == q.metric) {
+            if (other.window.low) w.low = w.low ? std::max(*w.low, *other.window.low) : *other.window.low;
+            if (other.window.high) w.high = w.high ? std::min(*w.high, *other.window.high) : *other.window.high;
+        }
     const double lo = best->worst_min[q.metric], hi = best->worst_max[q.metric];
     const std::string name(info.name);
-    const auto& w = q.window;
     const std::string window = "[" + (w.low ? metric_value_text(info.unit, *w.low) : "-inf") + ", " +
                                (w.high ? metric_value_text(info.unit, *w.high) : "inf") + "]";
     const std::string spread = metric_value_text(info.unit, lo) + " to " + metric_value_text(info.unit, hi);

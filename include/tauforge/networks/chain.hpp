@@ -116,6 +116,10 @@ struct chain {
                                   detail::prefixed_names<Link::second_name, Second::metrics>::table),
                      Link::metrics);
 
+    /// Corner bounds are exact only when they are for both stages (links are
+    /// assumed monotone in the stages' metrics).
+    static constexpr bool monotone = monotone_network_v<First> && monotone_network_v<Second>;
+
     /// Index of the first link metric in `metrics`.
     static constexpr std::size_t link_metric_offset = first_metrics + second_metrics;
 
