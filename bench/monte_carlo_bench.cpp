@@ -1,0 +1,133 @@
+// Monte Carlo throughput for a one-shot (R, C and threshold ratio uncertain)
+// against a raw-double loop that draws the same random numbers (the same
+// splitmix64 stream and transforms) and evaluates the same rc.hpp kernel,
+// keeping only the sum, the sum of squares and the pass count.
+//
+// Pairs (bench/run.sh prints baseline time / variant time):
+//   mc_one_shot_normal/baseline     raw loop, truncated normal parameters, 10^6 samples
+//   mc_one_shot_normal/moments      monte_carlo: moments and yield only
+//   mc_one_shot_normal/full         monte_carlo: + 5 percentiles and 5 worst samples
+//   mc_one_shot_uniform/...         the same with uniform parameters
+//   mc_threads/baseline             monte_carlo, moments, 1 thread (wall clock)
+//   mc_threads/two_threads          the same on 2 threads (identical result)
+//   mc_threads_full/...             the same with percentiles and worst samples
+// Target: moments within 1.5x of the raw loop (ratio >= 0.67).
+// Before any timing, each raw loop and monte_carlo run once and must agree on
+// the pass count exactly and on the mean within 1e-12; otherwise nothing is timed.
+#include <tauforge/analysis/monte_carlo.hpp>
+#include <tauforge/parts.hpp>
+#include <tauforge/rc.hpp>
+
+#include <benchmark/benchmark.h>
+
+#include <cmath>
+#include <cstdio>
+#include <cstdlib>
+
+using namespace tauforge;
+using namespace tauforge::literals;
+
+namespace {
+
+struct one_shot {
+    static constexpr std::array<quantity_info, 3> parameters{{{"R", "\u03A9"}, {"C", "F"}, {"ratio", ""}}};
+    static constexpr std::array<quantity_info, 1> metrics{{{"width", "s"}}};
+    resistor r;
+    capacitor c;
+    ranged<double> ratio = ranged<double>::exactly(2.0 / 3.0);
+    std::array<interval, 3> ranges() const { return {r.range(), c.range(), ratio.as_interval()}; }
+    std::array<double, 1> evaluate(const std::array<double, 3>& x) const {
+        return {detail::rc::crossing_time(0.0, 1.0, x[2], x[0] * x[1])};
+    }
+};
+
+const one_shot net{{.nominal = 100_kohm, .tol = tolerance::symmetric(0.01)},
+                   {.nominal = 10_nF, .tol = tolerance::symmetric(0.10)},
+                   ranged<double>::plus_minus(2.0 / 3.0, 0.01)};
+
+constexpr std::size_t samples = 1'000'000;
+
+monte_carlo_options<one_shot> options(bool uniform, bool full, unsigned threads) {
+    monte_carlo_options<one_shot> o;
+    o.samples = samples;
+    o.threads = threads;
+    o.spec[0] = spec_window::between(1.0_ms, 1.2_ms);
+    if (uniform) o.distributions.fill(parameter_distribution::uniform());
+    if (!full) {
+        o.percentiles.clear();
+        o.worst_samples = 0;
+    }
+    return o;
+}
+
+struct raw_result {
+    double mean;
+    std::size_t pass;
+};
+
+raw_result raw_loop(const monte_carlo_options<one_shot>& o) {
+    const auto r = net.ranges();
+    const auto sampler = detail::make_sampler<one_shot>("bench", r, o);
+    std::array<double, 3> x{r[0].nominal, r[1].nominal, r[2].nominal};
+    double s1 = 0.0, s2 = 0.0;
+    std::size_t pass = 0;
+    for (std::size_t i = 0; i < o.samples; ++i) {
+        sampler.draw(i, x);
+        const double t = detail::rc::crossing_time(0.0, 1.0, x[2], x[0] * x[1]);
+        s1 += t;
+        s2 += t * t;
+        pass += t >= 1e-3 && t <= 1.2e-3;
+    }
+    benchmark::DoNotOptimize(s2);
+    return {s1 / static_cast<double>(o.samples), pass};
+}
+
+void check_agreement(bool uniform) {
+    const auto o = options(uniform, false, 1);
+    const raw_result raw = raw_loop(o);
+    const auto mc = monte_carlo(net, o);
+    if (raw.pass != mc.passing || std::abs(raw.mean - mc[0].mean) > 1e-12 * std::abs(raw.mean)) {
+        std::fprintf(stderr, "monte_carlo_bench: raw loop and monte_carlo disagree; nothing is timed\n");
+        std::abort();
+    }
+}
+
+void raw(benchmark::State& state, bool uniform) {
+    check_agreement(uniform);
+    const auto o = options(uniform, false, 1);
+    for (auto _ : state) benchmark::DoNotOptimize(raw_loop(o).pass);
+    state.SetItemsProcessed(state.iterations() * static_cast<std::int64_t>(samples));
+}
+
+void run(benchmark::State& state, bool uniform, bool full, unsigned threads) {
+    const auto o = options(uniform, full, threads);
+    for (auto _ : state) {
+        auto r = monte_carlo(net, o);
+        benchmark::DoNotOptimize(r.metrics[0].mean);
+    }
+    state.SetItemsProcessed(state.iterations() * static_cast<std::int64_t>(samples));
+}
+
+void mc_one_shot_normal(benchmark::State& s, int variant) {
+    if (variant == 0) raw(s, false);
+    else run(s, false, variant == 2, 1);
+}
+void mc_one_shot_uniform(benchmark::State& s, int variant) {
+    if (variant == 0) raw(s, true);
+    else run(s, true, variant == 2, 1);
+}
+void mc_threads(benchmark::State& s, unsigned threads) { run(s, false, false, threads); }
+void mc_threads_full(benchmark::State& s, unsigned threads) { run(s, false, true, threads); }
+
+}  // namespace
+
+BENCHMARK_CAPTURE(mc_one_shot_normal, baseline, 0)->Unit(benchmark::kMillisecond);
+BENCHMARK_CAPTURE(mc_one_shot_normal, moments, 1)->Unit(benchmark::kMillisecond);
+BENCHMARK_CAPTURE(mc_one_shot_normal, full, 2)->Unit(benchmark::kMillisecond);
+BENCHMARK_CAPTURE(mc_one_shot_uniform, baseline, 0)->Unit(benchmark::kMillisecond);
+BENCHMARK_CAPTURE(mc_one_shot_uniform, moments, 1)->Unit(benchmark::kMillisecond);
+BENCHMARK_CAPTURE(mc_one_shot_uniform, full, 2)->Unit(benchmark::kMillisecond);
+BENCHMARK_CAPTURE(mc_threads, baseline, 1u)->Unit(benchmark::kMillisecond);
+BENCHMARK_CAPTURE(mc_threads, two_threads, 2u)->Unit(benchmark::kMillisecond);
+BENCHMARK_CAPTURE(mc_threads_full, baseline, 1u)->Unit(benchmark::kMillisecond);
+BENCHMARK_CAPTURE(mc_threads_full, two_threads, 2u)->Unit(benchmark::kMillisecond);
