@@ -67,17 +67,17 @@ concept TimingNetwork = requires(const N& n, const std::array<double, N::paramet
     { n.evaluate(x) } -> std::same_as<std::array<double, N::metrics.size()>>;
 };
 
-/// Whether corner bounds are exact for N: true unless N declares
-/// `static constexpr bool monotone = false;` because some metric can turn
-/// inside a parameter's interval (a pulse filter's ripple peaks at 50 % duty).
-/// Synthesis then scores designs with the full `worst_case` search.
+/// Whether the corners of n's parameter box bound its metrics: true unless n
+/// has a member `corners_are_bounds()` that says otherwise because some metric
+/// can turn inside a parameter's interval (a pulse filter's ripple peaks at 50 %
+/// duty). Synthesis then scores designs with the full `worst_case` search.
 template <class N>
-inline constexpr bool monotone_network_v = [] {
-    if constexpr (requires { N::monotone; })
-        return static_cast<bool>(N::monotone);
+constexpr bool corners_are_bounds(const N& n) {
+    if constexpr (requires { { n.corners_are_bounds() } -> std::convertible_to<bool>; })
+        return n.corners_are_bounds();
     else
         return true;
-}();
+}
 
 template <TimingNetwork N>
 inline constexpr std::size_t parameter_count_v = N::parameters.size();

@@ -238,7 +238,7 @@ design<N> score_design(const N& base, const std::vector<requirement>& reqs,
     d.parts = parts;
     d.network = base.with_parts(choice);
     try {
-        if constexpr (monotone_network_v<N>) {
+        if (corners_are_bounds(d.network)) {
             const auto b = metric_bounds(d.network);
             for (std::size_t m = 0; m < N::metrics.size(); ++m) {
                 d.nominal[m] = b[m].nominal;

@@ -51,6 +51,8 @@ struct celsius {
     constexpr celsius() = default;
     constexpr explicit celsius(double degrees) : value(degrees) {}
     friend constexpr auto operator<=>(celsius, celsius) = default;
+    /// So that -40_degC reads as written.
+    friend constexpr celsius operator-(celsius t) { return celsius{-t.value}; }
 };
 
 /// Temperature difference in kelvin from two Celsius temperatures.

@@ -92,35 +92,7 @@ struct worst_case_result {
 /// part in the bounds. Throws above 20 free parameters.
 template <TimingNetwork N>
 std::array<bounds, metric_count_v<N>> metric_bounds(const N& n, const std::array<interval, parameter_count_v<N>>& r) {
-    constexpr std::size_t M = metric_count_v<N>;
-    const auto fs = detail::free_parameters(r);
-    detail::check_corner_count("metric_bounds", fs.count);
-    auto x = detail::nominal_point(r);
-    const auto nominal = n.evaluate(x);
-    std::array<bounds, M> out{};
-    for (std::size_t m = 0; m < M; ++m) out[m] = {nominal[m], nominal[m], nominal[m]};
-    bool finite = true;
-    detail::for_each_corner(r, fs, x, [&](std::uint32_t) {
-        const auto v = n.evaluate(x);
-        for (std::size_t m = 0; m < M; ++m) {
-            out[m].low = std::min(out[m].low, v[m]);
-            out[m].high = std::max(out[m].high, v[m]);
-            finite = finite && std::isfinite(v[m]);
-        }
-    });
-    for (std::size_t m = 0; m < M; ++m) {
-        detail::check_metric<N>("metric_bounds", m, nominal[m]);
-        if (!finite) {
-            detail::check_metric<N>("metric_bounds", m, out[m].low);
-            detail::check_metric<N>("metric_bounds", m, out[m].high);
-        }
-    }
-    if (!finite)  // a NaN slipped past min/max: find it
-        detail::for_each_corner(r, fs, x, [&](std::uint32_t) {
-            const auto v = n.evaluate(x);
-            for (std::size_t m = 0; m < M; ++m) detail::check_metric<N>("metric_bounds", m, v[m]);
-        });
-    return out;
+    return detail::corner_bounds(n, r, "metric_bounds");
 }
 
 /// metric_bounds over the network's own (checked) ranges.

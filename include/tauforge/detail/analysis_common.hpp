@@ -6,6 +6,7 @@
 #include "tauforge/detail/validate.hpp"
 #include "tauforge/error.hpp"
 
+#include <algorithm>
 #include <array>
 #include <bit>
 #include <cmath>
@@ -134,6 +135,50 @@ constexpr std::array<double, P> corner_point(const std::array<interval, P>& r, c
     for (std::size_t b = 0; b < fs.count; ++b)
         x[fs.index[b]] = (mask >> b & 1u) ? r[fs.index[b]].high : r[fs.index[b]].low;
     return x;
+}
+
+/// Every metric's nominal, low and high over the corners of the free
+/// parameters (exact when each metric is monotone in each parameter), without
+/// heap allocation: the one corner loop behind `metric_bounds` and the
+/// networks' own checks. Throws above 20 free parameters or on a NaN metric.
+template <TimingNetwork N>
+std::array<interval, N::metrics.size()> corner_bounds(const N& n, const std::array<interval, N::parameters.size()>& r,
+                                                    std::string_view fn = "corner_bounds") {
+    constexpr std::size_t M = N::metrics.size();
+    const auto fs = free_parameters(r);
+    check_corner_count(fn, fs.count);
+    auto x = nominal_point(r);
+    const auto nominal = n.evaluate(x);
+    std::array<interval, M> out{};
+    for (std::size_t m = 0; m < M; ++m) out[m] = {nominal[m], nominal[m], nominal[m]};
+    bool finite = true;
+    for_each_corner(r, fs, x, [&](std::uint32_t) {
+        const auto v = n.evaluate(x);
+        for (std::size_t m = 0; m < M; ++m) {
+            out[m].low = std::min(out[m].low, v[m]);
+            out[m].high = std::max(out[m].high, v[m]);
+            finite = finite && std::isfinite(v[m]);
+        }
+    });
+    for (std::size_t m = 0; m < M; ++m) {
+        check_metric<N>(fn, m, nominal[m]);
+        if (!finite) {
+            check_metric<N>(fn, m, out[m].low);
+            check_metric<N>(fn, m, out[m].high);
+        }
+    }
+    if (!finite)  // a NaN slipped past min/max: find it
+        for_each_corner(r, fs, x, [&](std::uint32_t) {
+            const auto v = n.evaluate(x);
+            for (std::size_t m = 0; m < M; ++m) check_metric<N>(fn, m, v[m]);
+        });
+    return out;
+}
+
+/// corner_bounds over the network's own (checked) ranges.
+template <TimingNetwork N>
+std::array<interval, N::metrics.size()> corner_bounds(const N& n) {
+    return corner_bounds(n, checked_ranges("corner_bounds", n), "corner_bounds");
 }
 
 }  // namespace tauforge::detail

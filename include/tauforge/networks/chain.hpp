@@ -118,7 +118,9 @@ struct chain {
 
     /// Corner bounds are exact only when they are for both stages (links are
     /// assumed monotone in the stages' metrics).
-    static constexpr bool monotone = monotone_network_v<First> && monotone_network_v<Second>;
+    bool corners_are_bounds() const {
+        return tauforge::corners_are_bounds(first) && tauforge::corners_are_bounds(second);
+    }
 
     /// Index of the first link metric in `metrics`.
     static constexpr std::size_t link_metric_offset = first_metrics + second_metrics;

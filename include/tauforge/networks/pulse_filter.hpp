@@ -136,8 +136,8 @@ struct pulse_filter {
         {{"R", "\u03A9"}, {"C", "F"}, {"high level", "V"}, {"duty", "V/V"}, {"width", "s"}, {"period", "s"}}};
     /// Mean output, peak-to-peak ripple in the steady state, settling time of the envelope.
     static constexpr std::array<quantity_info, 3> metrics{{{"average", "V"}, {"ripple", "V"}, {"settling", "s"}}};
-    /// The ripple peaks inside a duty range that contains 1/2: corners are not bounds.
-    static constexpr bool monotone = false;
+    /// The ripple can peak inside the duty range (at 1/2): corners are not bounds.
+    bool corners_are_bounds() const { return false; }
     /// Synthesis chooses R and C.
     static constexpr std::array<design_slot, 2> design_slots{
         {{"R", part_kind::resistor, 0}, {"C", part_kind::capacitor, 1}}};
@@ -222,8 +222,8 @@ struct two_stage_pulse_filter {
                                                               {"period", "s"}}};
     /// Mean output, peak-to-peak ripple in the steady state, settling time of the envelope.
     static constexpr std::array<quantity_info, 3> metrics{{{"average", "V"}, {"ripple", "V"}, {"settling", "s"}}};
-    /// The ripple peaks inside a duty range that contains 1/2: corners are not bounds.
-    static constexpr bool monotone = false;
+    /// The ripple can peak inside the duty range (at 1/2): corners are not bounds.
+    bool corners_are_bounds() const { return false; }
     /// Synthesis chooses R1, C1, R2 and C2.
     static constexpr std::array<design_slot, 4> design_slots{{{"R1", part_kind::resistor, 0},
                                                               {"C1", part_kind::capacitor, 1},
