@@ -84,7 +84,7 @@ void three_part_exhaustive(benchmark::State& st) {
 
 }  // namespace
 
-BENCHMARK(two_part_exhaustive)->Unit(benchmark::kMillisecond);
-BENCHMARK(two_part_fast)->Unit(benchmark::kMillisecond);
-BENCHMARK(three_part_exhaustive)->Unit(benchmark::kMillisecond)->Iterations(1);
-BENCHMARK(three_part_fast)->Unit(benchmark::kMillisecond);
+BENCHMARK(two_part_exhaustive)->Name("synthesis_two_part/baseline")->Unit(benchmark::kMillisecond);
+BENCHMARK(two_part_fast)->Name("synthesis_two_part/fast_path")->Unit(benchmark::kMillisecond);
+BENCHMARK(three_part_exhaustive)->Name("synthesis_three_part/baseline")->Unit(benchmark::kMillisecond)->Iterations(1);
+BENCHMARK(three_part_fast)->Name("synthesis_three_part/fast_path")->Unit(benchmark::kMillisecond);

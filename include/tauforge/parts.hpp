@@ -147,10 +147,11 @@ inline void check_aging(std::string_view fn, double aging) {
 
 inline void check_rated(std::string_view fn, std::string_view what, celsius rated_min, celsius rated_max,
                         const operating_conditions& c) {
+    if (!(c.t_min < rated_min) && !(c.t_max > rated_max)) return;  // the hot path builds no message
     const std::string rated = "a temperature within the rated range of " + std::string(what) + ", " +
                               format(rated_min, {.digits = 6}) + " to " + format(rated_max, {.digits = 6});
     if (c.t_min < rated_min) parts_fail_domain(fn, "t_min", format(c.t_min, {.digits = 6}), rated);
-    if (c.t_max > rated_max) parts_fail_domain(fn, "t_max", format(c.t_max, {.digits = 6}), rated);
+    parts_fail_domain(fn, "t_max", format(c.t_max, {.digits = 6}), rated);
 }
 
 /// Relative factors for the temperature part of a range.

@@ -83,10 +83,8 @@ public:
     static std::size_t metric_index(std::string_view name) {
         for (std::size_t i = 0; i < N::metrics.size(); ++i)
             if (N::metrics[i].name == name) return i;
-        std::string valid;
-        for (const auto& m : N::metrics) valid += (valid.empty() ? "\"" : ", \"") + std::string(m.name) + "\"";
         throw invalid_argument("timing_spec: metric = \"" + std::string(name) + "\" is invalid; expected one of " +
-                               valid);
+                               detail::quoted_names(N::metrics));
     }
 
 private:

@@ -78,10 +78,8 @@ template <TimingNetwork N>
 std::size_t metric_named(std::string_view fn, std::string_view name) {
     for (std::size_t m = 0; m < N::metrics.size(); ++m)
         if (N::metrics[m].name == name) return m;
-    std::string valid;
-    for (const auto& q : N::metrics) valid += (valid.empty() ? "\"" : ", \"") + std::string(q.name) + "\"";
     throw invalid_argument(std::string(fn) + ": metric = \"" + std::string(name) + "\" is invalid; expected one of " +
-                           valid);
+                           quoted_names(N::metrics));
 }
 
 }  // namespace detail

@@ -60,4 +60,16 @@ void require_finite(std::string_view function, std::string_view parameter, Q val
     (void)finite_value(function, parameter, value, what);
 }
 
+/// "\"a\", \"b\", \"c\"": the names of a network's table, for "expected one of" messages.
+template <class Table>
+std::string quoted_names(const Table& table) {
+    std::string out;
+    for (const auto& entry : table) {
+        out += out.empty() ? "\"" : ", \"";
+        out += entry.name;
+        out += '"';
+    }
+    return out;
+}
+
 }  // namespace tauforge::detail
