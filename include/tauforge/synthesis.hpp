@@ -549,7 +549,10 @@ synthesis_result<N> synthesize(const N& base, const timing_spec<N>& spec,
 template <DesignableNetwork N>
 std::string describe(const design<N>& d, const timing_spec<N>& spec) {
     std::string s = detail::parts_text(d) + ":";
+    std::array<bool, N::metrics.size()> shown{};
     for (const auto& q : spec.requirements()) {
+        if (shown[q.metric]) continue;  // a metric with two one-sided windows is shown once
+        shown[q.metric] = true;
         const auto& info = N::metrics[q.metric];
         s += " " + std::string(info.name) + " " + detail::metric_value_text(info.unit, d.worst_min[q.metric]) +
              " .. " + detail::metric_value_text(info.unit, d.worst_max[q.metric]) + ";";

@@ -11,6 +11,7 @@
 #include "tauforge/concepts.hpp"
 #include "tauforge/detail/analysis_common.hpp"
 #include "tauforge/error.hpp"
+#include "tauforge/notation.hpp"
 
 #include <cstddef>
 #include <limits>
@@ -117,15 +118,15 @@ verification verify(const N& n, const std::vector<metric_requirement>& requireme
         const auto& c = v.fails_high ? e.max : e.min;
         v.corner = detail::corner_text<N>(c);
         const std::string name(info.name);
-        const std::string value = detail::info_value_text(c.value, info.unit);
+        const auto text = [&](double x) { return format_si(x, info.unit, {.digits = 4}); };
+        const std::string value = text(c.value);
         if (v.holds) {
-            v.message = name + " holds: worst case " + detail::info_value_text(e.min.value, info.unit) + " to " +
-                        detail::info_value_text(e.max.value, info.unit) + "; tightest at " + v.corner;
+            v.message = name + " holds: worst case " + text(e.min.value) + " to " + text(e.max.value) +
+                        "; tightest at " + v.corner;
         } else {
             const double edge = v.fails_high ? *w.high : *w.low;
             v.message = name + " fails: " + (v.fails_high ? "maximum " : "minimum ") + value + " is " +
-                        (v.fails_high ? "above " : "below ") + detail::info_value_text(edge, info.unit) + " at " +
-                        v.corner;
+                        (v.fails_high ? "above " : "below ") + text(edge) + " at " + v.corner;
         }
         out.verdicts.push_back(std::move(v));
     }
