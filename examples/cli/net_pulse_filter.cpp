@@ -1,0 +1,65 @@
+// Catalogue entry: the one-stage pulse-train averaging filter (tauforge::pulse_filter).
+#include "engine.hpp"
+#include "trace.hpp"
+
+#include <tauforge/networks/pulse_filter.hpp>
+
+namespace tfcli {
+namespace {
+
+using pf = tauforge::pulse_filter;
+
+/// One period of the periodic steady state (rc.hpp's periodic_steady_state): from
+/// the input's rising edge the output charges towards the high level for T1, then
+/// falls towards 0 V for T2.
+waveform trace(const pf& n, const point<pf>& x, std::size_t, double t_end) {
+    const bool duty = n.input.uses_duty();
+    const double v = x[pf::p_high], period = x[pf::p_period];
+    const double th = duty ? x[pf::p_duty] * period : x[pf::p_width], tl = period - th;
+    const double tau = x[pf::p_r] * x[pf::p_c];
+    const auto ss = tauforge::detail::rc::periodic_steady_state(v, 0.0, th, tl, tau);
+    trace_builder b("filter output in the steady state", t_end);
+    // About its own average, so that the ripple of every corner shows at one scale.
+    b.axis("output minus its average", "V", false);
+    b.offset(v * th / period);
+    b.threshold("average", 0.0);
+    b.event("input falls", th);
+    b.event("period", period);
+    const double end = b.end(period);
+    for (double t0 = 0.0; t0 < end && !b.full(); t0 += period) {
+        b.segment(t0, th, ss.at_rise, v, tau);
+        b.segment(t0 + th, tl, ss.at_fall, 0.0, tau);
+    }
+    return std::move(b).take();
+}
+
+}  // namespace
+
+network_entry pulse_filter_entry() {
+    network_def<pf> d;
+    d.name = "pulse_filter";
+    d.title = "RC averaging filter for a pulse train (PWM to DC)";
+    d.summary =
+        "A rectangular pulse train between 0 V and its high level drives R into C. Metrics: the average output, "
+        "the peak-to-peak ripple in the periodic steady state, and the settling time of the envelope after a step.";
+    d.aliases = {"pwm-filter", "averaging-filter"};
+    d.parts = {{"R", &pf::r, pf::p_r}, {"C", &pf::c, pf::p_c}};
+    d.settings = {
+        ranged_at<pf, tauforge::voltage>("high", "high level of the pulse train: 3.3V or 3.2V..3.4V",
+                                         [](auto& n) -> auto& { return n.input.high; }),
+        ratio_or_time_at<pf>("width", "duty cycle (high fraction: 0.5, 20%..40%) or high time (10us..20us)",
+                             [](auto& n) -> auto& { return n.input.width; }),
+        ranged_at<pf, tauforge::duration>("period", "period of the pulse train: 50us or 49us..51us",
+                                          [](auto& n) -> auto& { return n.input.period; }),
+        number_at<pf>("settling-fraction", "settled within this fraction of the step: 1% or 0.001",
+                      [](auto& n) -> auto& { return n.settling_fraction; }),
+    };
+    d.default_metric = pf::ripple;
+    d.example_parts = {"R=10k,1%", "C=1u,10%"};
+    d.example_settings = {"high=3.3V", "width=20%..40%", "period=50us"};
+    d.example_spec = {"ripple<=20mV", "settling<=60ms"};
+    d.trace = trace;
+    return make_entry(std::move(d));
+}
+
+}  // namespace tfcli
