@@ -619,6 +619,9 @@ TEST_CASE("format_tolerance writes symmetric and asymmetric bands") {
     CHECK(format_tolerance(tolerance::symmetric(0.001)) == "\u00B10.1 %");
     CHECK(format_tolerance(tolerance::symmetric(0.0)) == "\u00B10 %");
     CHECK(format_tolerance(tolerance{0.0, 0.05}) == "+5/-0 %");
+    // A pair's band, computed in floating point, differs in the last bits on its sides.
+    CHECK(format_tolerance(tolerance{0.05000000000000001, 0.05}) == "\u00B15 %");
+    CHECK(format_tolerance(tolerance{0.0501, 0.05}, {.digits = 3}) == "+5/-5.01 %");
     CHECK(format_tolerance(tolerance::symmetric(0.05), {.digits = 2, .trailing_zeros = true}) == "\u00B15.0 %");
 }
 

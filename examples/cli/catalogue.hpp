@@ -24,6 +24,7 @@ struct network_entry {
     std::vector<std::pair<std::string, std::string>> parts;     ///< name, kind
     std::vector<std::pair<std::string, std::string>> settings;  ///< name, help
     std::vector<std::string> example_parts, example_settings, example_spec;
+    std::string example_resistors, example_capacitors;  ///< of design --example ("": the defaults)
     bool designable = true;  ///< design can choose its parts
     std::function<check_result(const request&)> check;  ///< check and limits
     std::function<design_result(const request&)> design;

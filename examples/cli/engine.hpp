@@ -72,6 +72,9 @@ struct network_def {
     std::vector<setting<N>> settings;
     std::size_t default_metric = 0;  ///< the metric plotted when no spec names one
     std::vector<std::string_view> example_parts, example_settings, example_spec;
+    /// Value sets `design --example` takes where none are given ("": the defaults);
+    /// a network of four parts keeps its example search to seconds with them.
+    std::string_view example_resistors, example_capacitors;
     /// The node voltage over one pulse or period at parameter values x, for `metric`;
     /// t_end <= 0: the network's own natural length, else up to t_end.
     waveform (*trace)(const N&, const point<N>&, std::size_t metric, double t_end) = nullptr;
@@ -715,6 +718,7 @@ design_result run_design(const network_def<N>& def, const request& rq) {
         std::string text = is_resistor ? rq.resistors : rq.capacitors;
         for (const auto& [k, v] : rq.slots)
             if (normalized_name(k) == normalized_name(N::design_slots[s].name)) text = v;
+        if (text.empty() && rq.example) text = is_resistor ? def.example_resistors : def.example_capacitors;
         if (text.empty()) text = is_resistor ? "E24" : "E12";
         const std::string what = std::string(is_resistor ? "resistors" : "capacitors") + " for " + std::string(N::design_slots[s].name);
         const auto spec_s = parse_value_set(text, what);
@@ -819,6 +823,8 @@ network_entry make_entry(network_def<N> def_in) {
     for (auto s : def->example_parts) e.example_parts.emplace_back(s);
     for (auto s : def->example_settings) e.example_settings.emplace_back(s);
     for (auto s : def->example_spec) e.example_spec.emplace_back(s);
+    e.example_resistors = std::string(def->example_resistors);
+    e.example_capacitors = std::string(def->example_capacitors);
     e.check = [def](const request& rq) {
         const N net = build_network(*def, rq, part_use::marked);
         check_options o = check_options_from(*def, rq);

@@ -99,7 +99,7 @@ void add_mc_options(CLI::App* sub, request& rq) {
 
 std::string shell_words(int argc, char** argv) {
     std::string s = "tauforge";
-    for (int i = 1; i < argc; ++i) s += std::string(" ") + argv[i];
+    for (int i = 1; i < argc; ++i) s += " " + shell_quote(argv[i]);
     return s;
 }
 
@@ -145,7 +145,7 @@ outcome execute(const request& rq, tauforge::charset cs) {
             o.json = report_header(cmd, o.status);
             o.json["design"] = json_design(d);
             if (d.best) o.plot = *d.best;
-            o.heading = "tauforge design: " + d.network + " (" + d.title + "), design 1";
+            o.heading = "tauforge design: " + d.network + ", design 1 \u2014 " + d.title;
             if (!d.feasible) o.message = "infeasible: " + d.reason;
         } else if (cmd == "readback") {
             const auto b = e.readback(rq);
@@ -161,7 +161,7 @@ outcome execute(const request& rq, tauforge::charset cs) {
             o.json["check"] = json_check(c);
             if (cmd == "limits") o.json["limits"] = json_limits(c.limits);
             o.plot = c;
-            o.heading = "tauforge " + cmd + ": " + c.network + " (" + c.title + ")";
+            o.heading = "tauforge " + cmd + ": " + c.network + " \u2014 " + c.title;
             if (o.status == exit_spec_not_met) {
                 std::string which;
                 for (const auto& m : c.metrics)

@@ -7,6 +7,8 @@
 #include <cstdio>
 #include <mutex>
 #include <stop_token>
+#include <string>
+#include <algorithm>
 #include <thread>
 
 namespace tfcli {
@@ -23,19 +25,27 @@ progress_line::progress_line(const std::atomic<std::size_t>& done, std::size_t t
     s_->worker = std::jthread([this, &done, total, label = std::move(label)](std::stop_token stop) {
         using namespace std::chrono;
         const auto start = steady_clock::now();
-        bool shown = false;
+        std::size_t width = 0;  // of the line on screen, to erase it
+        std::string last;
         std::unique_lock lock(s_->m);
         while (!stop.stop_requested()) {
             s_->cv.wait_for(lock, stop, milliseconds(100), [] { return false; });
             if (stop.stop_requested()) break;
             if (steady_clock::now() - start < milliseconds(500)) continue;
             const std::size_t n = std::min(done.load(std::memory_order_relaxed), total);
-            std::fprintf(stderr, "\r%s: %3zu %% (%zu of %zu samples)", label.c_str(), n * 100 / total, n, total);
+            char line[160];
+            if (n < total)
+                std::snprintf(line, sizeof line, "%s: %3zu %% (%zu of %zu samples)", label.c_str(), n * 100 / total, n, total);
+            else
+                std::snprintf(line, sizeof line, "%s: %zu samples drawn, sorting them for percentiles", label.c_str(), total);
+            if (line == last) continue;
+            last = line;
+            std::fprintf(stderr, "\r%-*s", static_cast<int>(width), line);
             std::fflush(stderr);
-            shown = true;
+            width = std::max(width, last.size());
         }
-        if (shown) {
-            std::fprintf(stderr, "\r%*s\r", 72, "");
+        if (width > 0) {
+            std::fprintf(stderr, "\r%*s\r", static_cast<int>(width), "");
             std::fflush(stderr);
         }
     });

@@ -269,7 +269,11 @@ json json_networks(const std::vector<network_entry>& all) {
                      {"settings", settings},
                      {"parameters", params},
                      {"metrics", metrics},
-                     {"example", {{"parts", e.example_parts}, {"settings", e.example_settings}, {"spec", e.example_spec}}}});
+                     {"example", {{"parts", e.example_parts},
+                                  {"settings", e.example_settings},
+                                  {"spec", e.example_spec},
+                                  {"resistors", e.example_resistors},
+                                  {"capacitors", e.example_capacitors}}}});
     }
     return a;
 }

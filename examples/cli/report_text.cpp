@@ -1,5 +1,6 @@
 #include "report_text.hpp"
 
+#include "requests.hpp"
 #include "table.hpp"
 
 #include <algorithm>
@@ -356,10 +357,14 @@ std::string text_network(const network_entry& e) {
         out += "  " + n + (m.unit.empty() ? "  (fraction)" : "  (" + std::string(m.unit) + ")") + "\n";
     }
     std::string example = "tauforge check " + e.name;
-    for (const auto& p : e.example_parts) example += " --part " + p;
-    for (const auto& s2 : e.example_settings) example += " --set " + s2;
-    for (const auto& s2 : e.example_spec) example += " --spec " + s2;
+    for (const auto& p : e.example_parts) example += " --part " + shell_quote(p);
+    for (const auto& s2 : e.example_settings) example += " --set " + shell_quote(s2);
+    for (const auto& s2 : e.example_spec) example += " --spec " + shell_quote(s2);
     out += "\nExample (also: tauforge check " + e.name + " --example)\n  " + example + "\n";
+    if (!e.example_resistors.empty() || !e.example_capacitors.empty())
+        out += "design --example searches " + (e.example_resistors.empty() ? std::string("E24") : e.example_resistors) +
+               " (resistors) and " + (e.example_capacitors.empty() ? std::string("E12") : e.example_capacitors) +
+               " (capacitors)\n";
     return out;
 }
 

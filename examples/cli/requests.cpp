@@ -65,6 +65,16 @@ std::string normalized_name(std::string_view s) {
     return out;
 }
 
+std::string shell_quote(std::string_view w) {
+    const bool plain = !w.empty() && std::all_of(w.begin(), w.end(), [](char c) {
+        return std::isalnum(static_cast<unsigned char>(c)) || std::string_view("-_=.,/:+%@").find(c) != std::string_view::npos;
+    });
+    if (plain) return std::string(w);
+    std::string out = "'";
+    for (const char c : w) out += c == '\'' ? std::string("'\\''") : std::string(1, c);
+    return out + "'";
+}
+
 std::string_view trim(std::string_view s) {
     while (!s.empty() && (s.front() == ' ' || s.front() == '\t')) s.remove_prefix(1);
     while (!s.empty() && (s.back() == ' ' || s.back() == '\t' || s.back() == '\r' || s.back() == '\n')) s.remove_suffix(1);

@@ -63,6 +63,20 @@ struct frame {
     }
 };
 
+/// A decade as text: 1, 0.1, 0.01, then 10⁻³, 10⁻⁴ ...
+std::string decade_label(double v) {
+    const int k = static_cast<int>(std::lround(std::log10(v)));
+    if (k >= -2 && k <= 2) {
+        char buf[16];
+        std::snprintf(buf, sizeof buf, "%g", std::pow(10.0, k));
+        return buf;
+    }
+    static const char* digits[10] = {"\u2070", "\u00B9", "\u00B2", "\u00B3", "\u2074", "\u2075", "\u2076", "\u2077", "\u2078", "\u2079"};
+    std::string out = k < 0 ? "10\u207B" : "10";
+    for (const char c : std::to_string(std::abs(k))) out += digits[c - '0'];
+    return out;
+}
+
 /// Decades within [lo, hi] for a logarithmic axis.
 std::vector<double> decades(double lo, double hi) {
     std::vector<double> out;
@@ -87,7 +101,8 @@ void axes(std::string& s, const frame& f, std::string_view xunit, std::string_vi
             s += "<line class=\"grid\" x1=\"" + num(f.x0) + "\" y1=\"" + num(y) + "\" x2=\"" + num(f.x0 + f.w) + "\" y2=\"" + num(y) +
                  "\" stroke=\"#e4e4e4\"/>\n";
             s += "<text x=\"" + num(f.x0 - 6) + "\" y=\"" + num(y + 4) + "\" text-anchor=\"end\">" +
-                 esc(yunit == "count" ? std::to_string(static_cast<long long>(t)) : format_si(t, yunit)) + "</text>\n";
+                 esc(f.log_y ? decade_label(t) : yunit == "count" ? std::to_string(static_cast<long long>(t)) : format_si(t, yunit)) +
+                 "</text>\n";
         }
     }
     s += "<text x=\"" + num(f.x0 + f.w / 2) + "\" y=\"" + num(f.y0 + f.h + 34) + "\" text-anchor=\"middle\">" + esc(xlabel) +
@@ -126,6 +141,10 @@ void waveform_panel(std::string& s, const check_result& c, double top) {
     if (!(tmax > 0.0)) tmax = 1.0;
     frame f{90, top, 720, 230, 0.0, tmax, 0.0, 1.0, log_y};
     if (log_y) {
+        // Down to the lowest threshold's thousandth at most: the tail beyond says nothing more.
+        double floor_v = vmax;
+        for (const auto& [l, v] : first.thresholds) floor_v = std::min(floor_v, v / 1000.0);
+        vmin = std::max(vmin, floor_v);
         f.ymin = std::pow(10.0, std::floor(std::log10(vmin > 0.0 && std::isfinite(vmin) ? vmin : 1e-6)));
         f.ymax = std::pow(10.0, std::ceil(std::log10(vmax > f.ymin ? vmax : f.ymin * 10.0)));
     } else {

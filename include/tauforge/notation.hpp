@@ -364,9 +364,11 @@ inline std::string format_tolerance(tolerance t, format_options opt = {}) {
         throw invalid_argument(std::string("format_tolerance: tolerance = ") + buf +
                                " is invalid; expected 0 <= minus < 1 and 0 <= plus, both finite");
     }
-    if (t.minus == t.plus)
-        return (opt.chars == charset::unicode ? "\u00B1" : "+/-") + detail::percent_text(t.plus, opt) + " %";
-    return "+" + detail::percent_text(t.plus, opt) + "/-" + detail::percent_text(t.minus, opt) + " %";
+    // Sides that read the same at the requested digits are shown as one band: a band
+    // computed in floating point (a pair's) may differ in its last bits on the two sides.
+    const std::string plus = detail::percent_text(t.plus, opt), minus = detail::percent_text(t.minus, opt);
+    if (plus == minus) return (opt.chars == charset::unicode ? "\u00B1" : "+/-") + plus + " %";
+    return "+" + plus + "/-" + minus + " %";
 }
 
 }  // namespace tauforge

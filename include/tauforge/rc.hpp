@@ -9,10 +9,10 @@
 /// The `detail::rc` functions are the same formulas on plain doubles in SI base
 /// units for hot loops; the public functions are thin unit-typed wrappers.
 
+#include "tauforge/detail/root_find.hpp"
 #include "tauforge/detail/validate.hpp"
 #include "tauforge/units.hpp"
 
-#include <boost/math/tools/toms748_solve.hpp>
 
 #include <cmath>
 #include <cstdint>
@@ -149,8 +149,8 @@ inline double ramp_voltage_at(double v_begin, double v_end, double rise, double 
 /// from the public crossing_time. The threshold must lie strictly between v_cap0 and
 /// v_end (or equal v_cap0): a threshold beyond v_cap0 on the far side from v_end, which
 /// a capacitor first moving away may cross, is rejected.
-/// Within the ramp, the root is bracketed and found with TOMS 748 down to a bracket of
-/// 4 machine epsilons relative (measured: within 2e-14 of a 50-digit reference, at most
+/// Within the ramp, the root is bracketed and found with Brent's method
+/// (detail/root_find.hpp) down to a bracket of 4 machine epsilons relative (measured: within 2e-14 of a 50-digit reference, at most
 /// about 75 iterations); after it the closed form applies.
 inline double ramp_crossing_time(double v_begin, double v_end, double rise, double v_cap0, double vth, double tau) {
     constexpr std::string_view fn = "crossing_time";
@@ -175,10 +175,7 @@ inline double ramp_crossing_time(double v_begin, double v_end, double rise, doub
     if (f_end == 0.0) return rise;
     // f(0) < 0 here; if the capacitor first moves away (v_begin beyond v_cap0 on the
     // wrong side), f stays negative until its minimum, and the bracket still holds.
-    std::uintmax_t iterations = 200;
-    const auto [lo, hi] = boost::math::tools::toms748_solve(f, 0.0, rise, f(0.0), f_end,
-                                                            boost::math::tools::eps_tolerance<double>(), iterations);
-    return lo + (hi - lo) / 2.0;
+    return bracketed_root(f, 0.0, rise, f(0.0), f_end);
 }
 
 /// The periodic steady state of a first-order stage (time constant tau) whose source

@@ -38,10 +38,8 @@
 #include "tauforge/analysis/common.hpp"
 #include "tauforge/concepts.hpp"
 #include "tauforge/detail/analysis_common.hpp"
+#include "tauforge/detail/probability.hpp"
 #include "tauforge/detail/random_streams.hpp"
-
-#include <boost/math/distributions/beta.hpp>
-#include <boost/math/distributions/normal.hpp>
 
 #include <algorithm>
 #include <array>
@@ -123,8 +121,7 @@ inline proportion_interval wilson_interval(std::size_t successes, std::size_t tr
         detail::analysis_fail(fn, "confidence", detail::quoted_value(confidence),
                               "a probability strictly between 0 and 1");
     const double n = static_cast<double>(trials), p = static_cast<double>(successes) / n;
-    const double z = boost::math::quantile(
-        boost::math::complement(boost::math::normal_distribution<double>(), (1.0 - confidence) / 2.0));
+    const double z = -detail::normal_quantile((1.0 - confidence) / 2.0);
     const double z2 = z * z, denom = 1.0 + z2 / n;
     const double center = (p + z2 / (2.0 * n)) / denom;
     const double half = z / denom * std::sqrt(p * (1.0 - p) / n + z2 / (4.0 * n * n));
@@ -143,11 +140,8 @@ inline proportion_interval clopper_pearson_interval(std::size_t successes, std::
         detail::analysis_fail(fn, "confidence", detail::quoted_value(confidence),
                               "a probability strictly between 0 and 1");
     const double k = static_cast<double>(successes), n = static_cast<double>(trials), a = 1.0 - confidence;
-    const double lo =
-        successes == 0 ? 0.0 : boost::math::quantile(boost::math::beta_distribution<double>(k, n - k + 1.0), a / 2.0);
-    const double hi = successes == trials ? 1.0
-                                          : boost::math::quantile(
-                                                boost::math::beta_distribution<double>(k + 1.0, n - k), 1.0 - a / 2.0);
+    const double lo = successes == 0 ? 0.0 : detail::beta_quantile(k, n - k + 1.0, a / 2.0);
+    const double hi = successes == trials ? 1.0 : detail::beta_quantile(k + 1.0, n - k, 1.0 - a / 2.0);
     return {k / n, lo, hi};
 }
 
@@ -260,7 +254,7 @@ random_sampler<parameter_count_v<N>> make_sampler(std::string_view fn,
     constexpr std::size_t P = parameter_count_v<N>;
     check_convention(fn, opt.convention);
     const double k = opt.convention.sigmas_per_half_width;
-    const double tail = boost::math::cdf(boost::math::normal_distribution<double>(), -k);
+    const double tail = detail::normal_cdf(-k);
     random_sampler<P> s;
     s.seed = opt.seed;
     for (std::size_t j = 0; j < P; ++j) {

@@ -19,7 +19,7 @@
 ///
 /// Read-back: from a measured metric and the other parts' intervals, the value
 /// of one part (the capacitor of an RC delay): solve metric(x) = measured for
-/// that parameter (bracketed TOMS 748), then again at every corner of the other
+/// that parameter (bracketed, Brent's method), then again at every corner of the other
 /// free parameters and at measured +/- U, which bounds the part's value when
 /// the solution is monotone in each of them (true for RC delays).
 
@@ -29,7 +29,7 @@
 #include "tauforge/concepts.hpp"
 #include "tauforge/detail/analysis_common.hpp"
 
-#include <boost/math/tools/toms748_solve.hpp>
+#include "tauforge/detail/root_find.hpp"
 
 #include <algorithm>
 #include <array>
@@ -230,10 +230,7 @@ double analysis_solve_for(std::string_view fn, const N& n, std::array<double, pa
                                  std::string(N::parameters[p].name) + " between " +
                                  info_value_text(a, N::parameters[p].unit) + " and " +
                                  info_value_text(b, N::parameters[p].unit) + " (the searched range)");
-    std::uintmax_t iterations = 200;
-    const auto [lo, hi] =
-        boost::math::tools::toms748_solve(g, a, b, ga, gb, boost::math::tools::eps_tolerance<double>(50), iterations);
-    return lo + (hi - lo) / 2.0;
+    return bracketed_root(g, a, b, ga, gb, 0x1p-49);
 }
 
 }  // namespace detail

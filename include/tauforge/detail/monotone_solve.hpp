@@ -2,7 +2,7 @@
 // Solving a monotone function of one positive part value for a target: the
 // fast path of networks whose metric is not a plain product of R and C.
 
-#include <boost/math/tools/toms748_solve.hpp>
+#include "tauforge/detail/root_find.hpp"
 
 #include <cmath>
 #include <cstdint>
@@ -13,7 +13,7 @@ namespace tauforge::detail {
 /// The x > 0 where f(x) = target, for f continuous and monotone (rising when
 /// `rising`, else falling) on x > 0. f may return +infinity where the metric is
 /// unreachable (it must then stay so beyond). The bracket grows geometrically from
-/// `guess` (factor 2, at most 2^-300 .. 2^300 times guess), then TOMS 748 refines
+/// `guess` (factor 2, at most 2^-300 .. 2^300 times guess), then Brent's method (root_find.hpp) refines
 /// ln x to about 1e-15 relative. Returns 0 when f is on the far side of target for
 /// every x down to the lower limit (no value is small enough), +infinity when for
 /// every x up to the upper limit (no value is large enough), NaN for a non-positive
@@ -52,10 +52,7 @@ double solve_monotone_positive(F&& f, double target, double guess, bool rising) 
     }
     if (g_lo == 0.0) return std::exp(lo);
     if (g_hi == 0.0) return std::exp(hi);
-    std::uintmax_t iterations = 200;
-    const auto [a, b] = boost::math::tools::toms748_solve(g, lo, hi, g_lo, g_hi,
-                                                          boost::math::tools::eps_tolerance<double>(50), iterations);
-    return std::exp(a + (b - a) / 2.0);
+    return std::exp(bracketed_root(g, lo, hi, g_lo, g_hi, 0x1p-49));
 }
 
 }  // namespace tauforge::detail

@@ -29,7 +29,7 @@
 
 #include "tauforge/rc.hpp"
 
-#include <boost/math/tools/toms748_solve.hpp>
+#include "tauforge/detail/root_find.hpp"
 
 #include <algorithm>
 #include <array>
@@ -89,7 +89,7 @@ inline double phi22(const modes& m, double t) {
 /// The first t >= 0 at which c_s e^(-t/tau_s) + c_f e^(-t/tau_f), which is 1 at t = 0
 /// and falls monotonically (the caller guarantees it), reaches `level` in (0, 1).
 /// The root lies in [0, tau_s ln((|c_s| + |c_f|) / level)] (the sum is at most
-/// (|c_s| + |c_f|) e^(-t/tau_s) there); TOMS 748 finds it to about 1e-15 relative.
+/// (|c_s| + |c_f|) e^(-t/tau_s) there); bracketed_root finds it to about 2e-15 relative.
 inline double decay_crossing(const modes& m, double c_s, double c_f, double level) {
     auto f = [&](double t) {
         return c_s * rc::voltage_at(1.0, 0.0, m.tau_slow, t) + c_f * rc::voltage_at(1.0, 0.0, m.tau_fast, t) - level;
@@ -98,10 +98,7 @@ inline double decay_crossing(const modes& m, double c_s, double c_f, double leve
     double f_hi = f(hi);
     for (int n = 0; n < 64 && f_hi > 0.0; ++n) f_hi = f(hi *= 1.0 + 1e-12 * (n + 1));  // rounding at the bound
     if (f_hi >= 0.0) return hi;
-    std::uintmax_t iterations = 200;
-    const auto [a, b] = boost::math::tools::toms748_solve(f, 0.0, hi, 1.0 - level, f_hi,
-                                                          boost::math::tools::eps_tolerance<double>(50), iterations);
-    return a + (b - a) / 2.0;
+    return bracketed_root(f, 0.0, hi, 1.0 - level, f_hi, 0x1p-49);
 }
 
 /// Time for the output's step response to come within `fraction` of its final
