@@ -149,10 +149,20 @@ TEST_CASE("synthesis: fast path returns exactly the exhaustive top-k on 200 rand
 
 TEST_CASE("synthesis: fast path returns exactly the exhaustive top-k on 200 random oscillator specs") {
     // Three parts: Ra, Rb, C; a frequency window and a duty window together.
+    // E6 (20 %) parts cannot hold these windows: those specs check the reasons.
+    // E12 (10 %) parts can for many of them.
     std::mt19937_64 g(7);
     const auto r6 = candidates(value_set<resistance>::from_series(e_series::e6, 1_kohm, 100_kohm));
     const auto c6 = candidates(value_set<capacitance>::from_series(e_series::e6, 1_nF, 100_nF));
+    const auto r12 = candidates(value_set<resistance>::from_series(e_series::e12, 1_kohm, 100_kohm));
+    const auto c12 = candidates(value_set<capacitance>::from_series(e_series::e12, 1_nF, 100_nF));
+    // The walk without pruning scores at least one design for each choice of Rb
+    // and C (Ra is solved): fewer on average shows the pruning at work.
+    std::uint64_t evaluated = 0, lines = 0;
+    int feasible = 0;
     for (int n = 0; n < 200; ++n) {
+        const auto& rs = n % 2 ? r12 : r6;
+        const auto& cs = n % 2 ? c12 : c6;
         timer_astable net;
         timing_spec<timer_astable> spec;
         // f = 1.44 / ((Ra + 2 Rb) C) spans about 50 Hz .. 480 kHz here.
@@ -161,11 +171,14 @@ TEST_CASE("synthesis: fast path returns exactly the exhaustive top-k on 200 rand
         const double duty = 0.52 + 0.4 * unit(g);
         spec.between("duty", duty - 0.05, duty + 0.05);
         const std::size_t k = 1 + static_cast<std::size_t>(unit(g) * 10);
-        const auto fast = synthesize(net, spec, {r6, r6, c6}, {.top_k = k, .method = search_method::fast});
-        const auto full = synthesize(net, spec, {r6, r6, c6}, {.top_k = k, .method = search_method::exhaustive});
+        const auto fast = synthesize(net, spec, {rs, rs, cs}, {.top_k = k, .method = search_method::fast});
+        const auto full = synthesize(net, spec, {rs, rs, cs}, {.top_k = k, .method = search_method::exhaustive});
         INFO("spec " << n << " f " << f << " duty " << duty << " k " << k);
         check_same_designs(fast, full);
+        if (full.feasible()) ++feasible, evaluated += fast.evaluated, lines += rs.size() * cs.size();
     }
+    CHECK(feasible >= 20);
+    CHECK(evaluated < lines);
 }
 
 TEST_CASE("synthesis: oscillator design holds frequency and duty by the textbook relations") {
@@ -281,4 +294,112 @@ TEST_CASE("synthesis: candidates the network cannot evaluate fail without ending
     const auto none = synthesize(net, spec, {big, cs});
     CHECK_FALSE(none.feasible());
     CHECK(none.reason.rfind("no design could be evaluated: the closest candidate, R = ", 0) == 0);
+}
+
+TEST_CASE("synthesis: the pruned fast path equals exhaustive with spread supply, thresholds and mixed stock lists") {
+    // Beyond the parts, the supply (+/- up to 5 %) and both thresholds (+/- up to
+    // 0.5 % of the supply) are free corners; C0G capacitors over -20 .. 70 degC add
+    // a temperature band. Odd specs use stock lists whose tolerance and series vary
+    // along each slot, so a box's ends no longer bound its candidates' intervals.
+    std::mt19937_64 g(11);
+    const auto r6 = candidates(value_set<resistance>::from_series(e_series::e6, 1_kohm, 100_kohm));
+    const auto c12 = candidates(value_set<capacitance>::from_series(e_series::e12, 1_nF, 1_uF));
+    auto r_mixed = r6;
+    for (std::size_t i = 1; i < r_mixed.size(); i += 3) {
+        r_mixed[i].tol = tolerance::symmetric(0.01);
+        r_mixed[i].rank = stock_rank;
+    }
+    auto c_mixed = c12;
+    for (std::size_t i = 0; i < c_mixed.size(); i += 4) c_mixed[i].tol = tolerance{0.02, 0.05};
+    std::uint64_t evaluated = 0, lines = 0;
+    int feasible = 0;
+    for (int n = 0; n < 30; ++n) {
+        timer_astable net;
+        net.supply = ranged<voltage>::around(5_V, tolerance::symmetric(0.05 * unit(g)));
+        net.lower_threshold = ranged<double>::plus_minus(1.0 / 3.0, 0.005 * unit(g));
+        net.upper_threshold = ranged<double>::plus_minus(2.0 / 3.0, 0.005 * unit(g));
+        net.c.tempco = c0g;
+        net.conditions = {.t_min = celsius{-20.0}, .t_max = celsius{70.0}};
+        timing_spec<timer_astable> spec;
+        // f = 1.44 / ((Ra + 2 Rb) C) spans about 5 Hz .. 480 kHz here.
+        const double f = 20.0 * std::pow(10.0, 4.0 * unit(g));
+        spec.around("frequency", frequency::from_value(f), tolerance::symmetric(0.25 + 0.25 * unit(g)));
+        const double duty = 0.55 + 0.35 * unit(g);
+        spec.between("duty", duty - 0.06, duty + 0.06);
+        const std::size_t k = 1 + static_cast<std::size_t>(unit(g) * 12);
+        const auto& rs = n % 2 ? r_mixed : r6;
+        const auto& cs = n % 2 ? c_mixed : c12;
+        const auto fast = synthesize(net, spec, {rs, rs, cs}, {.top_k = k, .method = search_method::fast});
+        const auto full = synthesize(net, spec, {rs, rs, cs}, {.top_k = k, .method = search_method::exhaustive});
+        INFO("spec " << n << " f " << f << " duty " << duty << " k " << k);
+        check_same_designs(fast, full);
+        if (full.feasible()) ++feasible, evaluated += fast.evaluated, lines += rs.size() * cs.size();
+    }
+    CHECK(feasible >= 10);     // the specs exercise the search, not only the infeasible case
+    CHECK(evaluated < lines);  // fewer designs than one per choice of Rb and C: pruned
+}
+
+TEST_CASE("synthesis: pruning keeps a design that holds when it sits at the edge of a box") {
+    // Stock lists of 13 values at 20 % (E12 1k .. 10k, 1 nF .. 10 nF) with one part
+    // at 1 %. A +/-10 % frequency and +/-0.05 duty window around the 1 % parts'
+    // nominal holds for them (about 2 % of spread) and for few others: a 20 % C
+    // or Rb alone spreads the frequency by more than 10 %. The search
+    // halves each list at its middle (indices 6 | 7 of 0 .. 12): place the 1 %
+    // parts at either end and on either side of that cut.
+    const auto stock = [](auto set, std::size_t tight) {
+        auto c = candidates(set);
+        for (auto& v : c) v.tol = tolerance::symmetric(0.20), v.rank = stock_rank;
+        c[tight].tol = tolerance::symmetric(0.01);
+        return c;
+    };
+    const std::size_t edges[] = {0, 6, 7, 12};
+    int checked = 0;
+    for (std::size_t i : edges)
+        for (std::size_t j : edges)
+            for (std::size_t k : edges) {
+                const auto ra = stock(value_set<resistance>::from_series(e_series::e12, 1_kohm, 10_kohm), i);
+                const auto rb = stock(value_set<resistance>::from_series(e_series::e12, 1_kohm, 10_kohm), j);
+                const auto c = stock(value_set<capacitance>::from_series(e_series::e12, 1_nF, 10_nF), k);
+                REQUIRE(ra.size() == 13);
+                REQUIRE(c.size() == 13);
+                // Common practice (textbook timer relations, thresholds 1/3 and 2/3):
+                // f = 1 / (ln 2 (Ra + 2 Rb) C), duty = (Ra + Rb) / (Ra + 2 Rb).
+                const double a = ra[i].value, b = rb[j].value, cv = c[k].value;
+                const double f = 1.0 / (std::log(2.0) * (a + 2 * b) * cv), duty = (a + b) / (a + 2 * b);
+                timing_spec<timer_astable> spec;
+                spec.around("frequency", frequency::from_value(f), tolerance::symmetric(0.10))
+                    .between("duty", duty - 0.05, duty + 0.05);
+                const auto fast =
+                    synthesize(timer_astable{}, spec, {ra, rb, c}, {.top_k = 3, .method = search_method::fast});
+                const auto full =
+                    synthesize(timer_astable{}, spec, {ra, rb, c}, {.top_k = 3, .method = search_method::exhaustive});
+                INFO("1 % parts at " << i << ", " << j << ", " << k);
+                check_same_designs(fast, full);
+                bool kept = false;
+                for (const auto& d : fast.designs)
+                    kept = kept || (d.parts[0].value == a && d.parts[1].value == b && d.parts[2].value == cv);
+                CHECK(kept);
+                CHECK(fast.evaluated < full.evaluated);
+                ++checked;
+            }
+    CHECK(checked == 64);
+}
+
+TEST_CASE("synthesis: pruning ranks ties on margin by the later keys exactly as exhaustive search") {
+    // E96 x E96 x E24 over two, two and three decades: many designs share one
+    // (Ra + 2 Rb) C and with it the margin (1.05k, 2.49k, 100 nF; its decade copy
+    // 10.5k, 24.9k, 10 nF; 7.5k, 13k, 18 nF with the same product); the nominal
+    // error and then the values decide between them.
+    const auto r = candidates(value_set<resistance>::from_series(e_series::e96, 1_kohm, 100_kohm));
+    const auto c = candidates(value_set<capacitance>::from_series(e_series::e24, 100_pF, 100_nF));
+    timing_spec<timer_astable> spec;
+    spec.around("frequency", 2.4_kHz, tolerance::symmetric(0.15)).between("duty", 0.55, 0.65);
+    const auto fast = synthesize(timer_astable{}, spec, {r, r, c}, {.top_k = 12, .method = search_method::fast});
+    const auto full = synthesize(timer_astable{}, spec, {r, r, c}, {.top_k = 12, .method = search_method::exhaustive});
+    check_same_designs(fast, full);
+    REQUIRE(full.designs.size() == 12);
+    int ties = 0;
+    for (std::size_t i = 1; i < full.designs.size(); ++i) ties += full.designs[i].margin == full.designs[0].margin;
+    CHECK(ties >= 2);  // the case the later keys decide is really there
+    CHECK(fast.evaluated * 100 < full.evaluated);
 }

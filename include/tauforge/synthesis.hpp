@@ -15,16 +15,22 @@
 /// Worst case here is the corner bound of `metric_bounds` (analysis/worst_case.hpp): exact for
 /// metrics monotone in every parameter (all networks in networks/ are).
 ///
-/// The fast path (networks that satisfy SolvableNetwork) enumerates every
-/// choice of the other slots, solves the remaining slot for the window's
-/// centre and walks outwards through that slot's sorted values while a value
-/// could still enter the top k. It returns exactly the exhaustive top k when
-/// the margin is unimodal along that slot (true when every metric is monotone
-/// in it); tests check the equality on random specs.
+/// The fast path (networks that satisfy SolvableNetwork) solves one slot for the
+/// window's centre and walks outwards through that slot's sorted values while a
+/// value could still enter the top k, for each choice of the other slots. It
+/// returns exactly the exhaustive top k when the margin is unimodal along that
+/// slot (true when every metric is monotone in it); tests check the equality on
+/// random specs. With three or more slots and corners that are bounds, the
+/// choices of the other slots are pruned first: a best-first branch and bound
+/// over boxes of contiguous candidates per slot bounds each ranking key over a
+/// box (detail/box_bounds.hpp) and drops the box when none of its designs could
+/// rank before the k-th kept one; the boxes left are walked. The bounds are
+/// exact inequalities, so the result is still exactly the exhaustive top k.
 
 #include "tauforge/analysis/common.hpp"
 #include "tauforge/analysis/worst_case.hpp"
 #include "tauforge/concepts.hpp"
+#include "tauforge/detail/box_bounds.hpp"
 #include "tauforge/detail/validate.hpp"
 #include "tauforge/notation.hpp"
 #include "tauforge/series.hpp"
@@ -203,11 +209,17 @@ struct synthesis_result {
 
 namespace detail {
 
+/// What margins in window w are fractions of: its half-width (one-sided: the
+/// edge's magnitude, or 1 for an edge at 0).
+inline double window_scale(const spec_window& w) {
+    const double scale = w.low && w.high ? (*w.high - *w.low) / 2.0 : std::abs(w.low ? *w.low : *w.high);
+    return scale > 0.0 ? scale : 1.0;
+}
+
 /// The margin of [lo, hi] inside window w, as a fraction of its half-width
 /// (one-sided: of the edge's magnitude, or absolute for an edge at 0).
 inline double window_margin(const spec_window& w, double lo, double hi, bool& at_high) {
-    const double scale = w.low && w.high ? (*w.high - *w.low) / 2.0 : std::abs(w.low ? *w.low : *w.high);
-    const double s = scale > 0.0 ? scale : 1.0;
+    const double s = window_scale(w);
     const double m_low = w.low ? (lo - *w.low) / s : std::numeric_limits<double>::infinity();
     const double m_high = w.high ? (*w.high - hi) / s : std::numeric_limits<double>::infinity();
     at_high = m_high < m_low;
@@ -295,6 +307,17 @@ bool ranks_before(const design<N>& a, const design<N>& b) {
     return false;
 }
 
+/// The best a set of designs can reach on each ranking key: none has a larger
+/// margin, a coarser series, a smaller nominal error, or smaller values slot by
+/// slot (each exactly, not up to rounding).
+template <std::size_t S>
+struct ranking_bound {
+    double margin = std::numeric_limits<double>::infinity();
+    series_rank rank = 0;
+    double nominal_error = 0.0;
+    std::array<double, S> values{};
+};
+
 /// The k best designs seen so far, plus the best non-holding one for the reason.
 template <DesignableNetwork N>
 class top_designs {
@@ -315,6 +338,22 @@ public:
     double threshold() const noexcept {
         return kept_.size() == k_ ? kept_.back().margin : 0.0;
     }
+    /// Whether some design no better than `b` on any ranking key could still be kept.
+    bool could_keep(const ranking_bound<N::design_slots.size()>& b) const noexcept {
+        if (kept_.size() < k_) return b.margin >= 0.0;
+        const design<N>& last = kept_.back();
+        if (rank_key(b.margin) != rank_key(last.margin)) return rank_key(b.margin) > rank_key(last.margin);
+        // At best a tie on margin: the later keys decide, as in ranks_before.
+        series_rank r = 0;
+        for (const auto& p : last.parts) r = std::max(r, p.rank);
+        if (b.rank != r) return b.rank < r;
+        if (rank_key(b.nominal_error) != rank_key(last.nominal_error))
+            return rank_key(b.nominal_error) < rank_key(last.nominal_error);
+        for (std::size_t s = 0; s < b.values.size(); ++s)
+            if (b.values[s] != last.parts[s].value) return b.values[s] < last.parts[s].value;
+        return true;  // equal values: the tolerances could still decide
+    }
+    bool empty() const noexcept { return kept_.empty(); }
     std::vector<design<N>> take() && { return std::move(kept_); }
     const std::optional<design<N>>& best_any() const noexcept { return best_any_; }
     std::uint64_t evaluated() const noexcept { return evaluated_; }
@@ -440,67 +479,236 @@ double optimistic_margin(const N& base, const std::vector<requirement>& reqs,
     return score_design(base, reqs, parts).margin;
 }
 
+/// The slot the fast path solves for, the requirement it aims at, and whether
+/// the slot's candidates share one tolerance (else the line's tightest).
+struct solved_line {
+    std::size_t slot = 0;
+    std::size_t metric = 0;
+    double target = 0.0;
+    bool uniform = true;
+    tolerance tightest{};
+};
+
+inline solved_line make_solved_line(const std::vector<requirement>& reqs, const std::vector<candidate_value>& line,
+                                    std::size_t solved, std::size_t aim) {
+    solved_line l{solved, reqs[aim].metric, window_target(reqs[aim].window), true, line.front().tol};
+    for (const auto& c : line) {
+        l.uniform = l.uniform && c.tol == line.front().tol;
+        l.tightest.minus = std::min(l.tightest.minus, c.tol.minus);
+        l.tightest.plus = std::min(l.tightest.plus, c.tol.plus);
+    }
+    return l;
+}
+
+/// Scores the solved slot's candidates first .. end - 1 with the other slots as
+/// in `parts`: from the first value >= the solved ideal, outwards both ways
+/// while a value could still be kept. The margin is unimodal along the line, so
+/// once it falls below what could still be kept it only falls.
+template <SolvableNetwork N>
+void walk_solved(const N& base, const std::vector<requirement>& reqs,
+                 const std::vector<candidate_value>& line, const solved_line& how,
+                 std::array<candidate_value, N::design_slots.size()> parts, std::size_t first, std::size_t end,
+                 top_designs<N>& top) {
+    constexpr std::size_t S = N::design_slots.size();
+    std::array<double, S> values{};
+    for (std::size_t s = 0; s < S; ++s)
+        if (s != how.slot) values[s] = parts[s].value;
+    const double ideal = base.solve_slot(how.slot, how.metric, how.target, values);
+    // Start at the first value >= ideal (or an end when the ideal is outside).
+    const auto begin_at = line.begin() + static_cast<std::ptrdiff_t>(first);
+    const auto end_at = line.begin() + static_cast<std::ptrdiff_t>(end);
+    std::size_t start = first;
+    if (std::isfinite(ideal))
+        start = static_cast<std::size_t>(std::lower_bound(begin_at, end_at, ideal, [](const candidate_value& c,
+                                                                                    double v) { return c.value < v; }) -
+                                         line.begin());
+    else if (ideal > 0.0)
+        start = end;
+    // Walk one way from `from`; `previous` is the margin of the value just before
+    // it on this walk (NaN when none, so the first value never stops the walk).
+    auto walk = [&](std::ptrdiff_t from, std::ptrdiff_t step, double previous) {
+        double at_first = std::numeric_limits<double>::quiet_NaN();
+        for (std::ptrdiff_t i = from; i >= static_cast<std::ptrdiff_t>(first) && i < static_cast<std::ptrdiff_t>(end);
+             i += step) {
+            parts[how.slot] = line[static_cast<std::size_t>(i)];
+            auto d = score_design(base, reqs, parts);
+            // With mixed tolerances on the line, decide on the optimistic margin
+            // (the line's tightest tolerance), which is unimodal and never smaller.
+            const double m = how.uniform ? d.margin : optimistic_margin(base, reqs, parts, how.slot, how.tightest);
+            if (std::isnan(at_first)) at_first = m;
+            top.offer(std::move(d));
+            if (m < previous && rank_key(m) < rank_key(top.threshold())) break;
+            previous = m;
+        }
+        return at_first;
+    };
+    const double at_start = walk(static_cast<std::ptrdiff_t>(start), 1, std::numeric_limits<double>::quiet_NaN());
+    walk(static_cast<std::ptrdiff_t>(start) - 1, -1, at_start);
+}
+
+/// The fast path without pruning: every choice of the other slots, one walk each.
 template <SolvableNetwork N>
 void fast_search(const N& base, const std::vector<requirement>& reqs,
-                 const std::array<std::vector<candidate_value>, N::design_slots.size()>& cands, std::size_t solved,
-                 std::size_t aim, top_designs<N>& top) {
+                 const std::array<std::vector<candidate_value>, N::design_slots.size()>& cands,
+                 const solved_line& how, top_designs<N>& top) {
     constexpr std::size_t S = N::design_slots.size();
-    const requirement& q = reqs[aim];
-    const double target = window_target(q.window);
-    const auto& line = cands[solved];
-    tolerance tightest = line.front().tol;
-    bool uniform = true;
-    for (const auto& c : line) {
-        uniform = uniform && c.tol == line.front().tol;
-        tightest.minus = std::min(tightest.minus, c.tol.minus);
-        tightest.plus = std::min(tightest.plus, c.tol.plus);
-    }
     std::array<std::size_t, S> idx{};
     for (;;) {
         std::array<candidate_value, S> parts;
-        std::array<double, S> values{};
         for (std::size_t s = 0; s < S; ++s)
-            if (s != solved) {
-                parts[s] = cands[s][idx[s]];
-                values[s] = parts[s].value;
-            }
-        const double ideal = base.solve_slot(solved, q.metric, target, values);
-        // Start at the first value >= ideal (or an end when the ideal is outside).
-        std::size_t start = 0;
-        if (std::isfinite(ideal))
-            start = static_cast<std::size_t>(
-                std::lower_bound(line.begin(), line.end(), ideal,
-                                 [](const candidate_value& c, double v) { return c.value < v; }) -
-                line.begin());
-        else if (ideal > 0.0)
-            start = line.size();
-        // Walk one way from `from`; `previous` is the margin of the value just before
-        // it on this walk (NaN when none, so the first value never stops the walk). The margin is unimodal along the
-        // line, so once it falls below what could still be kept it only falls.
-        auto walk = [&](std::ptrdiff_t from, std::ptrdiff_t step, double previous) {
-            double first = std::numeric_limits<double>::quiet_NaN();
-            for (std::ptrdiff_t i = from; i >= 0 && i < static_cast<std::ptrdiff_t>(line.size()); i += step) {
-                parts[solved] = line[static_cast<std::size_t>(i)];
-                auto d = score_design(base, reqs, parts);
-                // With mixed tolerances on the line, decide on the optimistic margin
-                // (the line's tightest tolerance), which is unimodal and never smaller.
-                const double m = uniform ? d.margin : optimistic_margin(base, reqs, parts, solved, tightest);
-                if (std::isnan(first)) first = m;
-                top.offer(std::move(d));
-                if (m < previous && rank_key(m) < rank_key(top.threshold())) break;
-                previous = m;
-            }
-            return first;
-        };
-        const double at_start = walk(static_cast<std::ptrdiff_t>(start), 1, std::numeric_limits<double>::quiet_NaN());
-        walk(static_cast<std::ptrdiff_t>(start) - 1, -1, at_start);
+            if (s != how.slot) parts[s] = cands[s][idx[s]];
+        walk_solved(base, reqs, cands[how.slot], how, parts, 0, cands[how.slot].size(), top);
         std::size_t s = 0;
-        while (s < S && (s == solved || ++idx[s] == cands[s].size())) {
-            if (s != solved) idx[s] = 0;
+        while (s < S && (s == how.slot || ++idx[s] == cands[s].size())) {
+            if (s != how.slot) idx[s] = 0;
             ++s;
         }
         if (s == S) return;
     }
+}
+
+/// The best margin and nominal error designs can reach whose metrics obey `b`:
+/// each window_margin and window_error at the most favourable end.
+template <std::size_t S, std::size_t M>
+void bound_margin(ranking_bound<S>& out, const box_metric_bounds<M>& b, const std::vector<requirement>& reqs) {
+    out.margin = std::numeric_limits<double>::infinity();
+    out.nominal_error = 0.0;
+    for (const auto& q : reqs) {
+        bool at_high = false;
+        out.margin =
+            std::min(out.margin, window_margin(q.window, b.low_at_most[q.metric], b.high_at_least[q.metric], at_high));
+        const double nearest = std::clamp(window_target(q.window), b.nominal_low[q.metric], b.nominal_high[q.metric]);
+        out.nominal_error = std::max(out.nominal_error, window_error(q.window, nearest));
+    }
+}
+
+/// The fast path with exact pruning (networks whose corners are bounds):
+/// best-first branch and bound over boxes of contiguous candidates per slot,
+/// highest margin bound first. A box whose bounds show that none of its designs
+/// could rank before the k-th kept one is dropped; one with a few choices of
+/// the other slots left is walked along the solved slot, within the box; any
+/// other is halved.
+template <SolvableNetwork N>
+void pruned_search(const N& base, const std::vector<requirement>& reqs,
+                   const std::array<std::vector<candidate_value>, N::design_slots.size()>& cands,
+                   const solved_line& how, const box_bounder<N>& bounder, top_designs<N>& top) {
+    constexpr std::size_t S = N::design_slots.size();
+    struct box {
+        std::array<std::size_t, S> first{}, last{};
+        ranking_bound<S> bound{};
+        std::size_t split = 0;  ///< the slot to halve next
+    };
+    // The coarsest series a design can have is at least each slot's finest
+    // candidate (exact for lists of one series).
+    series_rank finest = 0;
+    for (std::size_t s = 0; s < S; ++s) {
+        series_rank r = stock_rank;
+        for (const auto& c : cands[s]) r = std::min(r, c.rank);
+        finest = std::max(finest, r);
+    }
+    // Corner by corner until the box is ruled out; the nominal values last, for
+    // the nominal error that decides ties on margin. The slot to split is the one
+    // whose range moves some required metric most (in margin units), else the
+    // one with the widest value ratio.
+    auto bound_of = [&](box& b) {
+        b.bound = {};
+        b.bound.rank = finest;
+        for (std::size_t s = 0; s < S; ++s) b.bound.values[s] = cands[s][b.first[s]].value;
+        const auto view = bounder.make_box(b.first, b.last);
+        box_metric_bounds<N::metrics.size()> metrics;
+        for (std::size_t k = 0; k < bounder.corner_count(); ++k) {
+            bounder.add_corner(view, k, metrics);
+            bound_margin(b.bound, metrics, reqs);
+            if (!top.could_keep(b.bound)) return;
+        }
+        std::array<std::array<double, N::metrics.size()>, S> swing{};
+        bounder.add_nominal(view, metrics, swing);
+        bound_margin(b.bound, metrics, reqs);
+        double most = 0.0, widest = 0.0;
+        b.split = S;
+        for (std::size_t s = 0; s < S; ++s) {
+            if (b.first[s] == b.last[s]) continue;
+            double moves = 0.0;
+            for (const auto& q : reqs) moves = std::max(moves, swing[s][q.metric] / window_scale(q.window));
+            const double ratio = cands[s][b.last[s]].value / cands[s][b.first[s]].value;
+            if (b.split == S || moves > most || (moves == most && ratio > widest))
+                b.split = s, most = moves, widest = ratio;
+        }
+    };
+    auto later = [](const box& a, const box& b) { return a.bound.margin < b.bound.margin; };
+    std::vector<box> heap;
+    box root;
+    for (std::size_t s = 0; s < S; ++s) root.last[s] = cands[s].size() - 1;
+    bound_of(root);
+    heap.push_back(root);
+    while (!heap.empty()) {
+        std::pop_heap(heap.begin(), heap.end(), later);
+        const box b = heap.back();
+        heap.pop_back();
+        // What could be kept only rises: a box that cannot enter now never will.
+        if (!top.could_keep(b.bound)) continue;
+        // A few lines left: walking each costs less than bounding the halves (a
+        // bound takes about as many evaluations as scoring four designs).
+        constexpr std::size_t few_lines = 4;
+        std::size_t lines = 1;
+        for (std::size_t s = 0; s < S; ++s)
+            if (s != how.slot) lines = std::min(lines * (b.last[s] - b.first[s] + 1), few_lines + 1);
+        if (lines <= few_lines) {
+            std::array<std::size_t, S> idx = b.first;
+            for (;;) {
+                std::array<candidate_value, S> parts;
+                for (std::size_t s = 0; s < S; ++s)
+                    if (s != how.slot) parts[s] = cands[s][idx[s]];
+                walk_solved(base, reqs, cands[how.slot], how, parts, b.first[how.slot], b.last[how.slot] + 1, top);
+                std::size_t s = 0;
+                while (s < S && (s == how.slot || idx[s]++ == b.last[s])) {
+                    if (s != how.slot) idx[s] = b.first[s];
+                    ++s;
+                }
+                if (s == S) break;
+            }
+            continue;
+        }
+        const std::size_t split = b.split;
+        const std::size_t mid = b.first[split] + (b.last[split] - b.first[split]) / 2;
+        box low = b, high = b;
+        low.last[split] = mid;
+        high.first[split] = mid + 1;
+        for (box* h : {&low, &high}) {
+            bound_of(*h);
+            if (!top.could_keep(h->bound)) continue;
+            heap.push_back(*h);
+            std::push_heap(heap.begin(), heap.end(), later);
+        }
+    }
+}
+
+/// The fast path: branch and bound where it pays and the network's corners are
+/// bounds, else every line walked. Bounds need each candidate's parameter
+/// interval, at about the cost of scoring a design, and a walk costs a design or
+/// two per line: pruning pays when the lines outnumber the candidates (three
+/// or more slots, in practice).
+template <SolvableNetwork N>
+void solved_search(const N& base, const std::vector<requirement>& reqs,
+                   const std::array<std::vector<candidate_value>, N::design_slots.size()>& cands,
+                   const solved_line& how, top_designs<N>& top) {
+    double lines = 1.0, candidates = 0.0;
+    for (std::size_t s = 0; s < cands.size(); ++s) {
+        candidates += static_cast<double>(cands[s].size());
+        if (s != how.slot) lines *= static_cast<double>(cands[s].size());
+    }
+    bool pruned = false;
+    if (lines > candidates) {
+        std::array<bool, N::metrics.size()> wanted{};
+        for (const auto& q : reqs) wanted[q.metric] = true;
+        const box_bounder<N> bounder(base, cands, wanted);
+        if (bounder.usable()) {
+            pruned_search(base, reqs, cands, how, bounder, top);
+            pruned = true;
+        }
+    }
+    // When nothing holds, pruning has skipped the designs that explain why.
+    if (!pruned || top.empty()) fast_search(base, reqs, cands, how, top);
 }
 
 }  // namespace detail
@@ -524,7 +732,9 @@ synthesis_result<N> synthesize(const N& base, const timing_spec<N>& spec,
     if constexpr (SolvableNetwork<N>) {
         if (options.method != search_method::exhaustive) {
             if (auto pick = detail::choose_solved_slot(base, reqs, cands)) {
-                detail::fast_search(base, reqs, cands, pick->first, pick->second, top);
+                detail::solved_search(base, reqs, cands,
+                                      detail::make_solved_line(reqs, cands[pick->first], pick->first, pick->second),
+                                      top);
                 fast = true;
             } else if (options.method == search_method::fast) {
                 throw invalid_argument("synthesize: method = fast is invalid for this spec; expected a window on a "
