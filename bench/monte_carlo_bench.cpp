@@ -11,10 +11,15 @@
 //   mc_threads/baseline             monte_carlo, moments, 1 thread (wall clock)
 //   mc_threads/two_threads          the same on 2 threads (identical result)
 //   mc_threads_full/...             the same with percentiles and worst samples
+//   mc_oscillator/baseline          a timer_astable (Ra, Rb, C, supply, thresholds
+//                                   uncertain): raw loop of timer_astable::evaluate on the
+//                                   same random numbers, frequency moments and pass count
+//   mc_oscillator/moments           monte_carlo: moments and yield of all five metrics
 // Target: moments within 1.5x of the raw loop (ratio >= 0.67).
 // Before any timing, each raw loop and monte_carlo run once and must agree on
 // the pass count exactly and on the mean within 1e-12; otherwise nothing is timed.
 #include <tauforge/analysis/monte_carlo.hpp>
+#include <tauforge/networks/timer_astable.hpp>
 #include <tauforge/parts.hpp>
 #include <tauforge/rc.hpp>
 
@@ -108,6 +113,74 @@ void run(benchmark::State& state, bool uniform, bool full, unsigned threads) {
     state.SetItemsProcessed(state.iterations() * static_cast<std::int64_t>(samples));
 }
 
+// ---- the oscillator: the library's timer_astable, 7 free parameters -----------------
+
+timer_astable make_oscillator() {
+    timer_astable n;
+    n.ra = {.nominal = 12.4_kohm, .tol = tolerance::symmetric(0.01), .tcr = ppm_band::symmetric(100)};
+    n.rb = {.nominal = 18.7_kohm, .tol = tolerance::symmetric(0.01), .tcr = ppm_band::symmetric(100)};
+    n.c = {.nominal = 12_nF, .tol = tolerance::symmetric(0.02), .tempco = c0g};
+    n.supply = ranged<voltage>::between(4.5_V, 5.5_V);
+    n.lower_threshold = ranged<double>::plus_minus(1.0 / 3.0, 0.005);
+    n.upper_threshold = ranged<double>::plus_minus(2.0 / 3.0, 0.005);
+    n.discharge_saturation = ranged<voltage>::between(0_V, 0.1_V);
+    n.conditions = {.t_min = celsius{-20.0}, .t_max = celsius{70.0}};
+    return n;
+}
+
+const timer_astable oscillator = make_oscillator();
+
+monte_carlo_options<timer_astable> oscillator_options() {
+    monte_carlo_options<timer_astable> o;
+    o.samples = samples;
+    o.spec[timer_astable::frequency] = spec_window::between(2.16_kHz, 2.64_kHz);
+    o.percentiles.clear();
+    o.worst_samples = 0;
+    return o;
+}
+
+raw_result raw_oscillator_loop(const monte_carlo_options<timer_astable>& o) {
+    const auto r = oscillator.ranges();
+    const auto sampler = detail::make_sampler<timer_astable>("bench", r, o);
+    std::array<double, timer_astable::parameters.size()> x{};
+    for (std::size_t j = 0; j < x.size(); ++j) x[j] = r[j].nominal;
+    double s1 = 0.0, s2 = 0.0;
+    std::size_t pass = 0;
+    for (std::size_t i = 0; i < o.samples; ++i) {
+        sampler.draw(i, x);
+        const double f = oscillator.evaluate(x)[timer_astable::frequency];
+        s1 += f;
+        s2 += f * f;
+        pass += f >= 2160.0 && f <= 2640.0;
+    }
+    benchmark::DoNotOptimize(s2);
+    return {s1 / static_cast<double>(o.samples), pass};
+}
+
+void mc_oscillator(benchmark::State& state, int variant) {
+    const auto o = oscillator_options();
+    static const bool checked = [&] {
+        const raw_result raw = raw_oscillator_loop(o);
+        const auto mc = monte_carlo(oscillator, o);
+        if (raw.pass != mc.passing ||
+            std::abs(raw.mean - mc[timer_astable::frequency].mean) > 1e-12 * std::abs(raw.mean)) {
+            std::fprintf(stderr, "monte_carlo_bench: raw oscillator loop and monte_carlo disagree; nothing is timed\n");
+            std::abort();
+        }
+        return true;
+    }();
+    benchmark::DoNotOptimize(checked);
+    for (auto _ : state) {
+        if (variant == 0) {
+            benchmark::DoNotOptimize(raw_oscillator_loop(o).pass);
+        } else {
+            auto r = monte_carlo(oscillator, o);
+            benchmark::DoNotOptimize(r.metrics[0].mean);
+        }
+    }
+    state.SetItemsProcessed(state.iterations() * static_cast<std::int64_t>(samples));
+}
+
 void mc_one_shot_normal(benchmark::State& s, int variant) {
     if (variant == 0) raw(s, false);
     else run(s, false, variant == 2, 1);
@@ -131,3 +204,5 @@ BENCHMARK_CAPTURE(mc_threads, baseline, 1u)->Unit(benchmark::kMillisecond)->UseR
 BENCHMARK_CAPTURE(mc_threads, two_threads, 2u)->Unit(benchmark::kMillisecond)->UseRealTime();
 BENCHMARK_CAPTURE(mc_threads_full, baseline, 1u)->Unit(benchmark::kMillisecond)->UseRealTime();
 BENCHMARK_CAPTURE(mc_threads_full, two_threads, 2u)->Unit(benchmark::kMillisecond)->UseRealTime();
+BENCHMARK_CAPTURE(mc_oscillator, baseline, 0)->Unit(benchmark::kMillisecond);
+BENCHMARK_CAPTURE(mc_oscillator, moments, 1)->Unit(benchmark::kMillisecond);
