@@ -15,7 +15,6 @@
 
 
 #include <cmath>
-#include <cstdint>
 #include <numbers>
 #include <string>
 #include <utility>

@@ -5,7 +5,6 @@
 #include "tauforge/detail/root_find.hpp"
 
 #include <cmath>
-#include <cstdint>
 #include <limits>
 
 namespace tauforge::detail {

@@ -18,8 +18,6 @@
 #include "tauforge/detail/root_find.hpp"
 
 #include <cmath>
-#include <cstdint>
-#include <limits>
 #include <numbers>
 #include <utility>
 

@@ -34,7 +34,6 @@
 #include <algorithm>
 #include <array>
 #include <cmath>
-#include <cstdint>
 
 namespace tauforge::detail::two_stage {
 
