@@ -719,7 +719,7 @@ design_result run_design(const network_def<N>& def, const request& rq) {
         for (const auto& [k, v] : rq.slots)
             if (normalized_name(k) == normalized_name(N::design_slots[s].name)) text = v;
         if (text.empty() && rq.example) text = is_resistor ? def.example_resistors : def.example_capacitors;
-        if (text.empty()) text = is_resistor ? "E24" : "E12";
+        if (text.empty()) text = is_resistor ? default_resistor_series : default_capacitor_series;
         const std::string what = std::string(is_resistor ? "resistors" : "capacitors") + " for " + std::string(N::design_slots[s].name);
         const auto spec_s = parse_value_set(text, what);
         slot_source src{std::string(N::design_slots[s].name), "", 0};

@@ -1,5 +1,6 @@
 // Catalogue entry: the one-stage pulse-train averaging filter (tauforge::pulse_filter).
 #include "engine.hpp"
+#include "pulse_train.hpp"
 #include "trace.hpp"
 
 #include <tauforge/networks/pulse_filter.hpp>
@@ -44,19 +45,10 @@ network_entry pulse_filter_entry() {
         "the peak-to-peak ripple in the periodic steady state, and the settling time of the envelope after a step.";
     d.aliases = {"pwm-filter", "averaging-filter"};
     d.parts = {{"R", &pf::r, pf::p_r}, {"C", &pf::c, pf::p_c}};
-    d.settings = {
-        ranged_at<pf, tauforge::voltage>("high", "high level of the pulse train: 3.3V or 3.2V..3.4V",
-                                         [](auto& n) -> auto& { return n.input.high; }),
-        ratio_or_time_at<pf>("width", "duty cycle (high fraction: 0.5, 20%..40%) or high time (10us..20us)",
-                             [](auto& n) -> auto& { return n.input.width; }),
-        ranged_at<pf, tauforge::duration>("period", "period of the pulse train: 50us or 49us..51us",
-                                          [](auto& n) -> auto& { return n.input.period; }),
-        number_at<pf>("settling-fraction", "settled within this fraction of the step: 1% or 0.001",
-                      [](auto& n) -> auto& { return n.settling_fraction; }),
-    };
+    d.settings = pulse_train_settings<pf>();
     d.default_metric = pf::ripple;
     d.example_parts = {"R=10k,1%", "C=1u,10%"};
-    d.example_settings = {"high=3.3V", "width=20%..40%", "period=50us"};
+    d.example_settings = pulse_train_example_settings;
     d.example_spec = {"ripple<=20mV", "settling<=60ms"};
     d.trace = trace;
     return make_entry(std::move(d));

@@ -1,5 +1,6 @@
 // Catalogue entry: the two-stage pulse-train averaging filter (tauforge::two_stage_pulse_filter).
 #include "engine.hpp"
+#include "pulse_train.hpp"
 #include "trace.hpp"
 
 #include <tauforge/detail/two_stage.hpp>
@@ -51,19 +52,10 @@ network_entry two_stage_pulse_filter_entry() {
         "C2. Metrics: average, peak-to-peak ripple in the steady state, settling time of the envelope.";
     d.aliases = {"two-stage-filter", "pwm-filter-2"};
     d.parts = {{"R1", &tf::r1, tf::p_r1}, {"C1", &tf::c1, tf::p_c1}, {"R2", &tf::r2, tf::p_r2}, {"C2", &tf::c2, tf::p_c2}};
-    d.settings = {
-        ranged_at<tf, tauforge::voltage>("high", "high level of the pulse train: 3.3V or 3.2V..3.4V",
-                                         [](auto& n) -> auto& { return n.input.high; }),
-        ratio_or_time_at<tf>("width", "duty cycle (high fraction: 0.5, 20%..40%) or high time (10us..20us)",
-                             [](auto& n) -> auto& { return n.input.width; }),
-        ranged_at<tf, tauforge::duration>("period", "period of the pulse train: 50us or 49us..51us",
-                                          [](auto& n) -> auto& { return n.input.period; }),
-        number_at<tf>("settling-fraction", "settled within this fraction of the step: 1% or 0.001",
-                      [](auto& n) -> auto& { return n.settling_fraction; }),
-    };
+    d.settings = pulse_train_settings<tf>();
     d.default_metric = tf::ripple;
     d.example_parts = {"R1=10k,1%", "C1=100n,10%", "R2=10k,1%", "C2=100n,10%"};
-    d.example_settings = {"high=3.3V", "width=20%..40%", "period=50us"};
+    d.example_settings = pulse_train_example_settings;
     d.example_spec = {"ripple<=5mV", "settling<=20ms"};
     // Four parts over the default sets are 73 x 49 x 73 x 49 combinations, each with a
     // full worst-case search (the duty makes the corners not bounds): minutes. E6 over

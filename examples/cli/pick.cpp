@@ -30,7 +30,7 @@ pick_result pick_from(const request& rq, double target, const char* kind, const 
     if (rq.pairs < 1 || rq.pairs > 50)
         throw usage_error("pairs = " + std::to_string(rq.pairs) + " is invalid; expected 1 to 50 combinations per connection");
     const bool is_r = std::is_same_v<Q, tauforge::resistance>;
-    const auto spec = parse_value_set(rq.from.empty() ? (is_r ? "E24" : "E12") : rq.from, "from");
+    const auto spec = parse_value_set(rq.from.empty() ? std::string(is_r ? default_resistor_series : default_capacitor_series) : rq.from, "from");
     // Without a range: two decades either side, enough for any pair that reaches the target.
     const auto set = [&] {
         if constexpr (std::is_same_v<Q, tauforge::resistance>) return build_resistors(spec, target / 100.0, target * 100.0);

@@ -362,8 +362,8 @@ std::string text_network(const network_entry& e) {
     for (const auto& s2 : e.example_spec) example += " --spec " + shell_quote(s2);
     out += "\nExample (also: tauforge check " + e.name + " --example)\n  " + example + "\n";
     if (!e.example_resistors.empty() || !e.example_capacitors.empty())
-        out += "design --example searches " + (e.example_resistors.empty() ? std::string("E24") : e.example_resistors) +
-               " (resistors) and " + (e.example_capacitors.empty() ? std::string("E12") : e.example_capacitors) +
+        out += "design --example searches " + (e.example_resistors.empty() ? std::string(default_resistor_series) : e.example_resistors) +
+               " (resistors) and " + (e.example_capacitors.empty() ? std::string(default_capacitor_series) : e.example_capacitors) +
                " (capacitors)\n";
     return out;
 }

@@ -133,6 +133,10 @@ std::pair<std::string, std::string> split_assignment(std::string_view text, std:
 /// "on"/"off", "true"/"false", "yes"/"no", "1"/"0".
 bool parse_switch(std::string_view text, std::string_view what);
 
+/// The value sets a part is taken from where the request names none (design, pick).
+inline constexpr std::string_view default_resistor_series = "E24";
+inline constexpr std::string_view default_capacitor_series = "E12";
+
 /// A word as a POSIX shell reads it back: quoted when it holds anything but
 /// letters, digits and -_=.,/:+%@ (a window such as pulse-width<=5ms).
 std::string shell_quote(std::string_view word);
