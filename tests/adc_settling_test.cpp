@@ -6,6 +6,7 @@
 // Set TAUFORGE_TEST_REPORT=1 to print the worst error each comparison measured.
 #include "approx.hpp"
 #include "ode_reference.hpp"
+#include "random_cases.hpp"
 
 #include <tauforge/analysis/worst_case.hpp>
 #include <tauforge/networks/adc_settling.hpp>
@@ -28,8 +29,8 @@ namespace ode = tauforge_test::ode;
 
 namespace {
 
-double unit(std::mt19937_64& g) { return static_cast<double>(g() >> 11) * 0x1.0p-53; }
-double log_uniform(std::mt19937_64& g, double lo, double hi) { return lo * std::exp(std::log(hi / lo) * unit(g)); }
+using tauforge_test::unit;
+using tauforge_test::log_uniform;
 
 void report(const std::string& what, double worst) {
     const std::string text = what + ": worst relative error " + tauforge_test::full(worst);

@@ -5,6 +5,7 @@
 // and bad inputs.
 #include "approx.hpp"
 #include "ode_reference.hpp"
+#include "random_cases.hpp"
 
 #include <tauforge/analysis/worst_case.hpp>
 #include <tauforge/networks/edge_detector.hpp>
@@ -24,10 +25,10 @@ using namespace tauforge::literals;
 
 namespace {
 
-namespace ode = tauforge_test::ode;
+using tauforge_test::unit;
+using tauforge_test::between;
 
-double unit(std::mt19937_64& g) { return static_cast<double>(g() >> 11) * 0x1.0p-53; }
-double between(std::mt19937_64& g, double lo, double hi) { return lo + (hi - lo) * unit(g); }
+namespace ode = tauforge_test::ode;
 
 void report(const char* what, double worst) {
     if (const char* e = std::getenv("TAUFORGE_TEST_REPORT"); e && *e == '1')

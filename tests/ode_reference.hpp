@@ -10,6 +10,7 @@
 #include <cstddef>
 #include <optional>
 #include <utility>
+#include <vector>
 
 namespace tauforge_test::ode {
 
@@ -99,6 +100,38 @@ private:
 template <std::size_t N, class F>
 path<N, F> make_path(F f, state<N> x0, double t0, double t_scale, double tol = 1e-13) {
     return path<N, F>(std::move(f), x0, t0, t_scale, tol);
+}
+
+/// The first t in (t0, t_end] where v, from v0 under dv/dt = f(t, v), reaches
+/// `target`, and v there; t < 0 when it never does.
+struct crossing {
+    double t = -1.0, v = 0.0;
+};
+template <class F>
+crossing first_crossing(F f, double t0, double v0, double target, double t_end) {
+    auto path = make_path<1>([f](const state<1>& x, double t) { return state<1>{f(t, x[0])}; }, state<1>{v0}, t0,
+                             t_end - t0);
+    const auto t = path.first_root([target](const state<1>& x) { return x[0] - target; }, t_end);
+    if (!t) return {};
+    return {*t, path.at(*t)[0]};
+}
+
+/// A switching circuit: run dv/dt = f0 until target0, then f1 until target1, and
+/// so on from v0 at t = 0, each restarted from the state at the event; the event
+/// times (empty if a phase never ends within `span`).
+template <class F0, class F1>
+std::vector<double> switching_times(F0 f0, double target0, F1 f1, double target1, double v0, int events, double span) {
+    std::vector<double> times;
+    double t = 0.0, v = v0;
+    for (int i = 0; i < events; ++i) {
+        const crossing e =
+            i % 2 ? first_crossing(f1, t, v, target1, t + span) : first_crossing(f0, t, v, target0, t + span);
+        if (e.t < 0.0) return {};
+        times.push_back(e.t);
+        t = e.t;
+        v = e.v;
+    }
+    return times;
 }
 
 }  // namespace tauforge_test::ode

@@ -8,6 +8,7 @@
 // Set TAUFORGE_TEST_REPORT=1 to print the worst error each comparison measured.
 #include "approx.hpp"
 #include "ode_reference.hpp"
+#include "random_cases.hpp"
 
 #include <tauforge/analysis/worst_case.hpp>
 #include <tauforge/networks/pulse_filter.hpp>
@@ -32,9 +33,10 @@ namespace ode = tauforge_test::ode;
 
 namespace {
 
-double unit(std::mt19937_64& g) { return static_cast<double>(g() >> 11) * 0x1.0p-53; }
+using tauforge_test::unit;
+using tauforge_test::log_uniform;
+
 double uniform(std::mt19937_64& g, double lo, double hi) { return lo + (hi - lo) * unit(g); }
-double log_uniform(std::mt19937_64& g, double lo, double hi) { return lo * std::exp(std::log(hi / lo) * unit(g)); }
 
 void report(const std::string& what, double worst) {
     const std::string text = what + ": worst relative error " + tauforge_test::full(worst);

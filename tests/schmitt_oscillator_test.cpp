@@ -5,6 +5,7 @@
 // and bad inputs.
 #include "approx.hpp"
 #include "ode_reference.hpp"
+#include "random_cases.hpp"
 
 #include <tauforge/analysis/worst_case.hpp>
 #include <tauforge/networks/schmitt_oscillator.hpp>
@@ -25,6 +26,11 @@ using namespace tauforge::literals;
 
 namespace {
 
+using tauforge_test::unit;
+using tauforge_test::between;
+using tauforge_test::ode::first_crossing;
+using tauforge_test::ode::switching_times;
+
 namespace ode = tauforge_test::ode;
 
 // With TAUFORGE_TEST_REPORT=1, prints the worst difference a test measured.
@@ -32,41 +38,6 @@ void report(const char* what, double worst) {
     if (const char* e = std::getenv("TAUFORGE_TEST_REPORT"); e && *e == '1')
         std::printf("%s: worst relative difference %.3g\n", what, worst);
 }
-
-// Odeint event: the first t in (t0, t_end] where v, from v0 under dv/dt = f(t, v),
-// reaches `target`, and v there; t < 0 when it never does.
-struct crossing {
-    double t = -1.0, v = 0.0;
-};
-template <class F>
-crossing first_crossing(F f, double t0, double v0, double target, double t_end) {
-    auto path = ode::make_path<1>([f](const ode::state<1>& x, double t) { return ode::state<1>{f(t, x[0])}; },
-                                  ode::state<1>{v0}, t0, t_end - t0);
-    const auto t = path.first_root([target](const ode::state<1>& x) { return x[0] - target; }, t_end);
-    if (!t) return {};
-    return {*t, path.at(*t)[0]};
-}
-
-// A switching circuit: run dv/dt = f[0] until target[0], then f[1] until target[1],
-// and so on from v0 at t = 0, each restarted from the state at the event; the event
-// times (empty if a phase never ends within `span`).
-template <class F0, class F1>
-std::vector<double> switching_times(F0 f0, double target0, F1 f1, double target1, double v0, int events, double span) {
-    std::vector<double> times;
-    double t = 0.0, v = v0;
-    for (int i = 0; i < events; ++i) {
-        const crossing e =
-            i % 2 ? first_crossing(f1, t, v, target1, t + span) : first_crossing(f0, t, v, target0, t + span);
-        if (e.t < 0.0) return {};
-        times.push_back(e.t);
-        t = e.t;
-        v = e.v;
-    }
-    return times;
-}
-
-double unit(std::mt19937_64& g) { return static_cast<double>(g() >> 11) * 0x1.0p-53; }
-double between(std::mt19937_64& g, double lo, double hi) { return lo + (hi - lo) * unit(g); }
 
 // Derivation. The input node obeys C dv/dt = (u - v) / R with u the output level.
 // Output high (u = VOH, input rising from VT-): v = VOH - (VOH - VT-) e^(-t/RC)

@@ -2,6 +2,7 @@
 // exhaustive enumeration on random specs, infeasible specs and their reasons,
 // and every returned design re-checked with formulas written here.
 #include "approx.hpp"
+#include "random_cases.hpp"
 
 #include <tauforge/networks/rc_delay.hpp>
 #include <tauforge/networks/timer_astable.hpp>
@@ -19,8 +20,9 @@ using namespace tauforge::literals;
 
 namespace {
 
+using tauforge_test::unit;
+
 // Uniform [0, 1) from the standardized mt19937_64 sequence (not std::*_distribution).
-double unit(std::mt19937_64& g) { return static_cast<double>(g() >> 11) * 0x1.0p-53; }
 
 // Independent worst case of an RC delay to a threshold ratio k of the supply:
 // delay = R C ln(1 / (1 - k)) (derivation: V (1 - e^(-t/RC)) = k V), monotone

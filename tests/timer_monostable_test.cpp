@@ -5,6 +5,7 @@
 // synthesis re-checked independently, the design checks and bad inputs.
 #include "approx.hpp"
 #include "ode_reference.hpp"
+#include "random_cases.hpp"
 
 #include <tauforge/analysis/worst_case.hpp>
 #include <tauforge/networks/timer_monostable.hpp>
@@ -26,6 +27,10 @@ using namespace tauforge::literals;
 
 namespace {
 
+using tauforge_test::unit;
+using tauforge_test::between;
+using tauforge_test::ode::first_crossing;
+
 namespace ode = tauforge_test::ode;
 
 // With TAUFORGE_TEST_REPORT=1, prints the worst difference a test measured.
@@ -33,23 +38,6 @@ void report(const char* what, double worst) {
     if (const char* e = std::getenv("TAUFORGE_TEST_REPORT"); e && *e == '1')
         std::printf("%s: worst relative difference %.3g\n", what, worst);
 }
-
-// Odeint event: the first t in (t0, t_end] where v, from v0 under dv/dt = f(t, v),
-// reaches `target`, and v there; t < 0 when it never does.
-struct crossing {
-    double t = -1.0, v = 0.0;
-};
-template <class F>
-crossing first_crossing(F f, double t0, double v0, double target, double t_end) {
-    auto path = ode::make_path<1>([f](const ode::state<1>& x, double t) { return ode::state<1>{f(t, x[0])}; },
-                                  ode::state<1>{v0}, t0, t_end - t0);
-    const auto t = path.first_root([target](const ode::state<1>& x) { return x[0] - target; }, t_end);
-    if (!t) return {};
-    return {*t, path.at(*t)[0]};
-}
-
-double unit(std::mt19937_64& g) { return static_cast<double>(g() >> 11) * 0x1.0p-53; }
-double between(std::mt19937_64& g, double lo, double hi) { return lo + (hi - lo) * unit(g); }
 
 // One operating point of the circuit, SI units.
 struct point {
