@@ -148,7 +148,7 @@ TEST_CASE("timer_astable: the defaults keep the original network's results") {
     const auto x = detail::nominal_point(a.ranges());
     CHECK(x[6] == 0.0);
     CHECK(x[7] == 0.0);  // the unused diode drop is fixed at 0
-    const auto k = timer_astable::per_tau(5.0, 1.0 / 3.0, 2.0 / 3.0);
+    const auto k = timer_astable{}.per_tau(5.0, 1.0 / 3.0, 2.0 / 3.0);
     const auto v = a.evaluate(x);
     CHECK(v[0] == k[0] * (2.2e3 + 6.8e3) * 47e-9);
     CHECK(v[1] == k[1] * 6.8e3 * 47e-9);

@@ -26,6 +26,7 @@
 /// `ranged<voltage>::between(0_V, 0.4_V)`.
 
 #include "tauforge/concepts.hpp"
+#include "tauforge/dc_bias.hpp"
 #include "tauforge/detail/validate.hpp"
 #include "tauforge/error.hpp"
 #include "tauforge/notation.hpp"
@@ -49,6 +50,7 @@ struct operating_conditions {
     celsius t_min{25.0};  ///< lowest ambient
     celsius t_max{25.0};  ///< highest ambient
     celsius t_ref{25.0};  ///< where the marked value holds and TCR is measured from
+    double service_hours = 0.0;  ///< how long the design must hold in service; parts age over it (0: new parts)
 };
 
 /// A temperature coefficient band: the actual coefficient of a part lies
@@ -131,6 +133,8 @@ inline void check_conditions(std::string_view fn, const operating_conditions& c)
     finite("t_ref", c.t_ref);
     if (c.t_min > c.t_max)
         parts_fail(fn, "t_min", format(c.t_min, {.digits = 6}), "at most t_max = " + format(c.t_max, {.digits = 6}));
+    if (!(std::isfinite(c.service_hours) && c.service_hours >= 0.0))
+        parts_fail(fn, "service_hours", quoted_value(c.service_hours) + " h", "a non-negative, finite number of hours");
 }
 
 inline void check_tolerance(std::string_view fn, const tolerance& t) {
@@ -157,6 +161,10 @@ inline void check_rated(std::string_view fn, std::string_view what, celsius rate
 /// Relative factors for the temperature part of a range.
 struct factor_span {
     double nominal = 1.0, low = 1.0, high = 1.0;
+    /// Both factors positive, so the extremes of the product are the products of the extremes.
+    friend factor_span operator*(const factor_span& a, const factor_span& b) {
+        return {a.nominal * b.nominal, a.low * b.low, a.high * b.high};
+    }
 };
 
 /// The factor 1 + a (T - t_ref) over a in [low, high] ppm/K and T in [t_min, t_max].
@@ -293,6 +301,30 @@ struct resistor {
     friend bool operator==(const resistor&, const resistor&) = default;
 };
 
+/// Wear-out of an aluminium electrolytic: it loses up to `loss` of its capacitance
+/// by the end of its rated life, `rated_hours` at `rated_temperature`. The life at
+/// the highest operating temperature T follows the 10 K rule (common practice):
+/// L(T) = rated_hours 2^((rated_temperature - T) / 10 K). Over a service time S the
+/// loss is taken as growing linearly to `loss` at L(T) (an estimate); a service
+/// time beyond L(T) is an error, since nothing bounds the part after its end of life.
+struct wear_out {
+    double loss = 0.20;                   ///< capacitance lost at end of life (an end-of-life criterion)
+    double rated_hours = 2000.0;          ///< endurance rating, hours
+    celsius rated_temperature{105.0};     ///< at this temperature
+    /// Memberwise equality.
+    friend constexpr bool operator==(const wear_out&, const wear_out&) = default;
+};
+
+/// A leakage limit of the form I <= max(k C V, floor), C the marked capacitance and
+/// V the voltage applied: for aluminium electrolytics k = 0.01 per second (0.01 CV,
+/// in µA with C in µF) or 3 µA, whichever is greater (common practice).
+struct leakage_rule {
+    double per_cv = 0.01;                                 ///< k, in A / (F V) = 1/s
+    current floor = current::from_value(0.0);             ///< the least the limit allows
+    /// Memberwise equality.
+    friend bool operator==(const leakage_rule&, const leakage_rule&) = default;
+};
+
 /// A capacitor: marked value, purchase tolerance, temperature behaviour (a ppm
 /// band such as `c0g`, or a class 2 envelope such as `x7r`), ageing drift, and
 /// optional leakage data for networks that model it.
@@ -303,6 +335,12 @@ struct capacitor {
     double aging = 0.0;                                            ///< relative drift magnitude, +/-
     std::optional<resistance> insulation{};                        ///< lowest insulation resistance, if modelled
     std::optional<current> leakage{};                              ///< largest leakage current, if modelled
+    std::optional<voltage> rated_voltage{};  ///< DC rating; networks check the highest voltage they apply against it
+    std::optional<dc_bias_curve> dc_bias{};  ///< capacitance against DC voltage (class 2 ceramics)
+    double aging_per_decade = 0.0;           ///< class 2 ageing: fraction lost per decade of hours in service
+    double aging_reference_hours = 1000.0;   ///< hours after the last de-ageing at which the marked value holds
+    std::optional<wear_out> end_of_life{};   ///< electrolytic wear-out over the service time
+    std::optional<leakage_rule> leakage_limit{};  ///< leakage from k C V (electrolytics), at the applied voltage
 
     /// Its value range in farads at the operating conditions:
     /// C (1 + [-minus, plus]) (temperature factor) (1 + [-aging, aging]). A ppm
@@ -318,10 +356,116 @@ struct capacitor {
         detail::check_conditions(fn, c);
         if (insulation) detail::require_positive(fn, "insulation", *insulation, "a positive, finite resistance");
         if (leakage) detail::require_non_negative(fn, "leakage", *leakage, "a non-negative, finite current");
+        if (rated_voltage) detail::require_positive(fn, "rated_voltage", *rated_voltage, "a positive, finite voltage");
+        if (dc_bias) dc_bias->validate(fn, rated_voltage.value_or(voltage::from_value(0.0)));
+        if (leakage_limit) {
+            if (!(std::isfinite(leakage_limit->per_cv) && leakage_limit->per_cv >= 0.0))
+                detail::parts_fail(fn, "leakage_limit.per_cv", detail::quoted_value(leakage_limit->per_cv) + " A/(F V)",
+                                   "a non-negative, finite coefficient");
+            detail::require_non_negative(fn, "leakage_limit.floor", leakage_limit->floor,
+                                         "a non-negative, finite current");
+        }
         const detail::factor_span temp = std::holds_alternative<ppm_band>(tempco)
                                              ? detail::tcr_factor(fn, "tempco", std::get<ppm_band>(tempco), c)
                                              : detail::class_factor(fn, std::get<dielectric_class>(tempco), c);
-        return detail::fold(nominal.value(), tol, temp, aging);
+        return detail::fold(nominal.value(), tol, temp * service_factor(c), aging);
+    }
+
+    /// The factor that ageing over `c.service_hours` applies: class 2 ceramics lose
+    /// `aging_per_decade` per decade of hours past `aging_reference_hours`
+    /// (1 - a log10(S / S_ref), common practice: X7R/X5R about 1-4 % per decade,
+    /// Y5V 6-10 %); electrolytics lose up to `end_of_life->loss` over their life (see
+    /// `wear_out`). Only losses: the value above the marking soon after a de-ageing
+    /// is not credited. {1, 1, 1} for new parts.
+    detail::factor_span service_factor(const operating_conditions& c) const {
+        constexpr std::string_view fn = "capacitor::range";
+        if (!(std::isfinite(aging_per_decade) && aging_per_decade >= 0.0 && aging_per_decade < 1.0))
+            detail::parts_fail(fn, "aging_per_decade", format_percent(aging_per_decade, 6),
+                               "a fraction per decade of hours from 0 up to, not including, 100 %");
+        if (!(std::isfinite(aging_reference_hours) && aging_reference_hours > 0.0))
+            detail::parts_fail(fn, "aging_reference_hours", detail::quoted_value(aging_reference_hours) + " h",
+                               "a positive, finite number of hours");
+        double kept = 1.0;
+        if (aging_per_decade > 0.0 && c.service_hours > aging_reference_hours) {
+            kept -= aging_per_decade * std::log10(c.service_hours / aging_reference_hours);
+            if (!(kept > 0.0))
+                detail::parts_fail_domain(fn, "service_hours", detail::quoted_value(c.service_hours) + " h",
+                                          "a service time over which " + format_percent(aging_per_decade, 6) +
+                                              " per decade of hours leaves some capacitance");
+        }
+        if (end_of_life) {
+            const wear_out& w = *end_of_life;
+            if (!(std::isfinite(w.loss) && w.loss >= 0.0 && w.loss < 1.0))
+                detail::parts_fail(fn, "end_of_life.loss", format_percent(w.loss, 6),
+                                   "a fraction from 0 up to, not including, 100 %");
+            if (!(std::isfinite(w.rated_hours) && w.rated_hours > 0.0))
+                detail::parts_fail(fn, "end_of_life.rated_hours", detail::quoted_value(w.rated_hours) + " h",
+                                   "a positive, finite number of hours");
+            if (!std::isfinite(w.rated_temperature.value))
+                detail::parts_fail(fn, "end_of_life.rated_temperature", format(w.rated_temperature, {.digits = 6}),
+                                   "a finite temperature");
+            const double life = w.rated_hours * std::exp2((w.rated_temperature.value - c.t_max.value) / 10.0);
+            if (c.service_hours > life)
+                detail::parts_fail_domain(
+                    fn, "service_hours", detail::quoted_value(c.service_hours) + " h",
+                    "at most the part's life at t_max = " + format(c.t_max, {.digits = 6}) + ", " +
+                        detail::quoted_value(life) + " h (" + detail::quoted_value(w.rated_hours) + " h at " +
+                        format(w.rated_temperature, {.digits = 6}) + ", doubling per 10 K below)");
+            kept *= 1.0 - w.loss * c.service_hours / life;
+        }
+        return {1.0, kept, 1.0};
+    }
+
+    /// The crossing time over R C for a charge from v_start to v_threshold towards
+    /// v_final (volts across the part), C the value without bias: with a DC-bias
+    /// curve, the exact integral over the curve (dc_bias.hpp); without one,
+    /// ln((v_start - v_final)/(v_threshold - v_final)). Networks call it where they
+    /// would call rc.hpp's crossing_time with tau = R C; voltages checked by `check_bias_covers`.
+    double crossing_per_tau(double v_start, double v_final, double v_threshold) const {
+        return dc_bias ? dc_bias->crossing_per_tau(v_start, v_final, v_threshold)
+                       : detail::rc::crossing_time(v_start, v_final, v_threshold, 1.0);
+    }
+
+    /// For network `fn`: `domain_error` when the highest voltage the network can put
+    /// across the part, `v_max` (from `what`, e.g. "supply.high"), exceeds `rated_voltage`.
+    void check_rating(std::string_view fn, std::string_view what, voltage v_max, std::string_view part = "c") const {
+        if (rated_voltage && v_max > *rated_voltage)
+            detail::parts_fail_domain(fn, std::string(part) + ".rated_voltage", detail::value_text(*rated_voltage),
+                                      "at least the " + detail::value_text(v_max) + " that " + std::string(what) +
+                                          " can put across " + std::string(part));
+    }
+
+    /// For network `fn`: `domain_error` when the timed swing reaches `v_max` (from
+    /// `what`) beyond the DC-bias curve, which cannot say what happens past its last point.
+    void check_bias_covers(std::string_view fn, std::string_view what, voltage v_max,
+                           std::string_view part = "c") const {
+        if (dc_bias && v_max > dc_bias->covers())
+            detail::parts_fail_domain(fn, std::string(part) + ".dc_bias",
+                                      "a curve up to " + detail::value_text(dc_bias->covers()),
+                                      "a curve that covers the " + detail::value_text(v_max) + " that " +
+                                          std::string(what) + " puts across " + std::string(part));
+    }
+
+    /// For networks that do not follow C's voltage: `invalid_argument` when a
+    /// DC-bias curve is set, rather than a timing that silently ignores it.
+    void require_no_bias_curve(std::string_view fn, std::string_view part = "c") const {
+        if (dc_bias)
+            detail::parts_fail(fn, std::string(part) + ".dc_bias", "a curve up to " + detail::value_text(dc_bias->covers()),
+                               "no DC-bias curve: this network does not follow the voltage across " +
+                                   std::string(part) + "; give its derated value instead (dc_bias_curve::at)");
+    }
+
+    /// The largest leakage current at `applied` volts: `leakage`, or
+    /// max(k C V, floor) from `leakage_limit`, the larger of the two when both are set.
+    std::optional<current> leakage_at(voltage applied) const {
+        std::optional<current> out = leakage;
+        if (leakage_limit) {
+            const current rule = std::max(current::from_value(leakage_limit->per_cv * nominal.value() *
+                                                              std::abs(applied.value())),
+                                          leakage_limit->floor);
+            out = out ? std::max(*out, rule) : rule;
+        }
+        return out;
     }
     /// The same capacitor bought at another value and tolerance (synthesis' `part_choice`).
     capacitor with_choice(const part_choice& p) const {

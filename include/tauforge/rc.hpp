@@ -97,6 +97,41 @@ inline double crossing_time(double vs, double vf, double vth, double tau) {
     return tau * log_ratio_to_threshold("crossing_time", vs, vf, vth);
 }
 
+/// -log1p(-g) - g = g^2/2 + g^3/3 + ... for 0 <= g < 1, without cancellation for small g.
+inline double log_gap_excess(double g) {
+    if (g < 0.1) {
+        double power = g * g, sum = 0.0;
+        for (int n = 2; n < 60 && power > 1e-18 * sum; ++n, power *= g) sum += power / n;
+        return sum;
+    }
+    return -std::log1p(-g) - g;
+}
+
+/// The crossing time per unit time constant, R C0, for a capacitance that depends
+/// on the voltage across it, C(v) = C0 k(v), with k linear between breakpoints:
+/// `next_break(p, q)` returns the breakpoint nearest p strictly between p and q, or q
+/// when there is none. The charge
+/// balance C(v) dv/dt = (vf - v) / R gives
+///   t / (R C0) = integral from vs to vth of k(v) / (vf - v) dv,
+/// the time-weighted mean of k over the swing times ln((vs - vf)/(vth - vf)). On a
+/// piece [p, q] where k = k(p) + s (v - p):
+///   integral = k(p) L + s (vf - p) E(g),  L = ln((vf - p)/(vf - q)), g = (q - p)/(vf - p),
+///   E(g) = -ln(1 - g) - g,
+/// exact, with L from the crossing-time logarithm and E without cancellation.
+/// The threshold must lie strictly between start and final value or equal the start.
+template <class NextBreak, class K>
+double crossing_per_tau_varying(double vs, double vf, double vth, NextBreak next_break, K k) {
+    if (log_ratio_to_threshold("crossing_time", vs, vf, vth) == 0.0) return 0.0;  // validates the swing
+    double sum = 0.0, p = vs, kp = k(vs);
+    while (p != vth) {
+        const double q = next_break(p, vth), kq = k(q), g = (q - p) / (vf - p);
+        sum += kp * log_ratio_from_gaps(p - q, q - vf) + (kq - kp) / (q - p) * (vf - p) * log_gap_excess(g);
+        p = q;
+        kp = kq;
+    }
+    return sum;
+}
+
 /// x + expm1(-x) = x^2/2 - x^3/6 + ..., without cancellation for small x.
 inline double ramp_lag_term(double x) {
     if (x < 0.1) {

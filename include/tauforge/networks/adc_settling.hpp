@@ -82,6 +82,7 @@ struct adc_settling {
         if (!(cs.low > 0.0))
             detail::parts_fail(fn, "sample_capacitance.low", detail::value_text(sample_capacitance.low),
                                "a positive capacitance");
+        if (external) external->require_no_bias_curve(fn, "external");
         return {rs, rsw, cs, external ? external->range(conditions) : interval::exactly(0.0)};
     }
 

@@ -88,6 +88,8 @@ struct debounce {
             detail::parts_fail(fn, "supply.low", detail::value_text(supply.low), "a positive supply voltage");
         const auto up = threshold_ranges(fn, "upper_threshold", upper_threshold, vs, supply.low);
         const auto down = threshold_ranges(fn, "lower_threshold", lower_threshold, vs, supply.low);
+        c.require_no_bias_curve(fn);
+        c.check_rating(fn, "supply.high", supply.high);
         return {r1.range(conditions), r2.range(conditions), c.range(conditions), vs,
                 up[0],                down[0],              up[1],              down[1]};
     }

@@ -60,8 +60,11 @@ struct edge_detector {
     /// outside (0, 1), `invalid_argument` for a non-positive supply or step.
     std::array<interval, 5> ranges() const {
         constexpr std::string_view fn = "edge_detector::ranges";
+        c.require_no_bias_curve(fn);
         std::array<interval, 5> x{r.range(conditions), c.range(conditions), supply.as_interval(), step.as_interval(),
                                   threshold.as_interval()};
+        // Input and trigger node can together put up to supply + step across the series C.
+        c.check_rating(fn, "supply.high + step.high", supply.high + step.high);
         if (!(x[p_supply].low > 0.0)) detail::fail_invalid(fn, "supply.low", supply.low, "a positive supply voltage");
         if (!(x[p_step].low > 0.0)) detail::fail_invalid(fn, "step.low", step.low, "a positive step amplitude");
         if (!(x[p_threshold].low > 0.0))

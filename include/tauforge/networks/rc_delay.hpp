@@ -76,6 +76,16 @@ struct rc_delay {
     static constexpr std::array<design_slot, 2> design_slots{{
         {"R", part_kind::resistor, 0}, {"C", part_kind::capacitor, 1}}};
 
+    /// Corners bound the delay: it rises with R, C, the threshold and the leakage and
+    /// falls with the supply. With a DC-bias curve that holds for a plain step (the
+    /// integral of k(v)/(vs - v) falls as vs rises, with k non-increasing); with
+    /// leakage or insulation too it is not proven, so analysis searches the interior.
+    bool corners_are_bounds() const {
+        const bool loaded = leakage.high.value() != 0.0 || leakage.low.value() != 0.0 || c.leakage ||
+                            c.leakage_limit || c.insulation;
+        return !(c.dc_bias && loaded);
+    }
+
     /// Each parameter's interval at the operating conditions. The capacitor's rated
     /// leakage adds [0, c.leakage] to the pin's leakage; its insulation resistance
     /// gives a conductance in [0, 1 / c.insulation] (nominal 0: a rated limit, not a
@@ -110,8 +120,15 @@ struct rc_delay {
         const interval rise = rise_time.as_interval();
         if (!(rise.low >= 0.0))
             detail::parts_fail(fn, "rise_time.low", detail::value_text(rise_time.low), "a non-negative time");
+        if (c.dc_bias && rise.high > 0.0)
+            detail::parts_fail(fn, "rise_time.high", detail::value_text(rise_time.high),
+                               "0 s (a step) when c.dc_bias is set: a ramp into a capacitance that varies with "
+                               "its voltage has no exact solution here");
+        c.check_rating(fn, "supply.high", supply.high);
+        c.check_bias_covers(fn, threshold_voltage ? "threshold_voltage.high" : "threshold.high x supply.high",
+                            voltage::from_value(threshold_voltage ? vth.high : k.high * vs.high));
         interval leak = leakage.as_interval();
-        const double c_leak = c.leakage ? c.leakage->value() : 0.0;
+        const double c_leak = c.leakage_at(supply.high).value_or(current::from_value(0.0)).value();
         leak.high += c_leak;
         const double g = c.insulation ? 1.0 / c.insulation->value() : 0.0;
         const interval fixed_vth = interval::exactly(k.nominal * vs.nominal);
@@ -124,10 +141,10 @@ struct rc_delay {
     std::array<double, 1> evaluate(const std::array<double, 8>& x) const {
         const double vs = x[p_supply], vth = threshold_voltage ? x[p_vth] : x[p_ratio] * x[p_supply];
         if (x[p_rise] == 0.0 && x[p_leak] == 0.0 && x[p_shunt] == 0.0)
-            return {detail::rc::crossing_time(0.0, vs, vth, x[p_r] * x[p_c])};
+            return {x[p_r] * x[p_c] * c.crossing_per_tau(0.0, vs, vth)};
         const auto d = drive(x[p_r], x[p_c], vs, x[p_leak], x[p_shunt]);
         if (!(vth < d.v_end)) unreachable(x, vth, d.v_end);
-        return {detail::rc::ramp_crossing_time(d.v_begin, d.v_end, x[p_rise], 0.0, vth, d.tau)};
+        return {time_to(d, x[p_rise], vth)};
     }
 
     /// A copy with R and C bought at the given values and tolerances.
@@ -150,18 +167,16 @@ struct rc_delay {
         const double vth = threshold_voltage ? threshold_voltage->nominal.value() : threshold.nominal * vs;
         const double rise = rise_time.nominal.value(), leak = leakage.nominal.value();
         const double other = slot == 1 && internal_pullup ? internal_pullup->nominal.value() : values[1 - slot];
-        if (rise == 0.0 && leak == 0.0) {
-            // Delay per unit time constant at nominal supply and threshold.
-            const double per_tau = detail::rc::crossing_time(0.0, vs, vth, 1.0);
-            return target / per_tau / other;
-        }
+        // Delay per unit time constant at nominal supply and threshold.
+        const double per_tau = c.crossing_per_tau(0.0, vs, vth);
+        if (rise == 0.0 && leak == 0.0) return target / per_tau / other;
         auto delay = [&](double v) {
             const double rv = slot == 0 ? v : other, cv = slot == 0 ? other : v;
             const auto d = drive(rv, cv, vs, leak, 0.0);
             if (!(vth < d.v_end)) return std::numeric_limits<double>::infinity();
-            return detail::rc::ramp_crossing_time(d.v_begin, d.v_end, rise, 0.0, vth, d.tau);
+            return time_to(d, rise, vth);
         };
-        const double guess = target / detail::rc::crossing_time(0.0, vs, vth, 1.0) / other;
+        const double guess = target / per_tau / other;
         return detail::solve_monotone_positive(delay, target, guess, true);
     }
 
@@ -183,6 +198,13 @@ private:
         };
         const rc_drive begin = reduce(0.0), end = reduce(vs);
         return {begin.v_final.value(), end.v_final.value(), end.tau.value()};
+    }
+
+    /// The crossing of vth from 0 V under drive d: rc.hpp's ramp crossing, or with a
+    /// DC-bias curve (a step only, checked by ranges()) the crossing over the curve.
+    double time_to(const node_drive& d, double rise, double vth) const {
+        if (c.dc_bias) return d.tau * c.crossing_per_tau(0.0, d.v_end, vth);
+        return detail::rc::ramp_crossing_time(d.v_begin, d.v_end, rise, 0.0, vth, d.tau);
     }
 
     [[noreturn]] void unreachable(const std::array<double, 8>& x, double vth, double v_end) const {

@@ -91,6 +91,7 @@ struct schmitt_oscillator {
     /// The duty can turn inside the supply range when ratio thresholds meet
     /// output levels off the rails; then corners are not bounds.
     bool corners_are_bounds() const {
+        if (c.dc_bias) return false;  // the duty can turn with the supply through the DC-bias curve
         const bool rails = output_high_drop.high.value() == 0.0 && output_low.high.value() == 0.0;
         return rails || (std::holds_alternative<ranged<voltage>>(upper_threshold) &&
                          std::holds_alternative<ranged<voltage>>(lower_threshold));
@@ -152,6 +153,10 @@ struct schmitt_oscillator {
                 text(lo_ratio, x[p_lower_ratio].high, lo_hi, up_ratio ? "supply.low" : "supply.high"),
                 "a threshold below upper_threshold.low = " + text(up_ratio, x[p_upper_ratio].low, up_lo, "supply.low") +
                     " (VT- < VT+)");
+        // C swings between the thresholds; the output can put up to the supply across it.
+        c.check_rating(fn, "supply.high", supply.high);
+        c.check_bias_covers(fn, "the upper threshold",
+                            voltage::from_value(up_ratio ? x[p_upper_ratio].high * vdd_hi : x[p_upper].high));
         return x;
     }
 
@@ -171,7 +176,7 @@ struct schmitt_oscillator {
         const double vtm =
             std::holds_alternative<ranged<double>>(lower_threshold) ? x[p_lower_ratio] * vdd : x[p_lower];
         const double voh = vdd - x[p_drop], vol = x[p_low];
-        return {detail::rc::crossing_time(vtm, voh, vtp, 1.0), detail::rc::crossing_time(vtp, vol, vtm, 1.0)};
+        return {c.crossing_per_tau(vtm, voh, vtp), c.crossing_per_tau(vtp, vol, vtm)};
     }
 
     /// A copy with R and C bought at the given values and tolerances.

@@ -85,7 +85,9 @@ struct timer_astable {
     /// lower threshold at every corner; `invalid_argument` for a negative V_sat or V_d.
     /// With a saturated discharge switch and the steering diode the duty can
     /// turn inside the supply range; then corners are not bounds.
-    bool corners_are_bounds() const { return !(steering_diode && discharge_saturation.high.value() > 0.0); }
+    bool corners_are_bounds() const {
+        return !c.dc_bias && !(steering_diode && discharge_saturation.high.value() > 0.0);
+    }
 
     std::array<interval, 8> ranges() const {
         constexpr std::string_view fn = "timer_astable::ranges";
@@ -95,24 +97,27 @@ struct timer_astable {
                                   discharge_saturation.as_interval(),
                                   steering_diode ? diode_drop.as_interval() : interval::exactly(0.0)};
         check_levels(fn, x);
+        // C swings between the thresholds; a fault can put the supply across it.
+        c.check_rating(fn, "supply.high", supply.high);
+        c.check_bias_covers(fn, "upper_threshold.high x supply.high",
+                            voltage::from_value(x[5].high * x[3].high));
         return x;
     }
 
-    /// High and low times per unit time constant: charge from lower to upper
-    /// threshold towards the supply, discharge from upper to lower towards V_sat.
-    static std::array<double, 2> per_tau(double vs, double lo, double hi, double vsat = 0.0) {
-        return {detail::rc::crossing_time(lo * vs, vs, hi * vs, 1.0),
-                detail::rc::crossing_time(hi * vs, vsat, lo * vs, 1.0)};
+    /// High and low times per unit time constant (C at 0 V bias): charge from lower
+    /// to upper threshold towards the supply, discharge from upper to lower towards V_sat.
+    std::array<double, 2> per_tau(double vs, double lo, double hi, double vsat = 0.0) const {
+        return {c.crossing_per_tau(lo * vs, vs, hi * vs), c.crossing_per_tau(hi * vs, vsat, lo * vs)};
     }
 
     /// The charge from v_lo to v_hi with the steering diode (see the header comment).
-    static double diode_charge_time(double ra_v, double rb_v, double c_v, double vs, double vd, double v_lo,
-                                    double v_hi) {
+    double diode_charge_time(double ra_v, double rb_v, double c_v, double vs, double vd, double v_lo,
+                             double v_hi) const {
         const double knee = vs - vd * (1.0 + ra_v / rb_v);
-        if (v_hi <= knee) return ra_v * c_v * detail::rc::crossing_time(v_lo, vs - vd, v_hi, 1.0);
-        if (v_lo >= knee) return (ra_v + rb_v) * c_v * detail::rc::crossing_time(v_lo, vs, v_hi, 1.0);
-        return ra_v * c_v * detail::rc::crossing_time(v_lo, vs - vd, knee, 1.0) +
-               (ra_v + rb_v) * c_v * detail::rc::crossing_time(knee, vs, v_hi, 1.0);
+        if (v_hi <= knee) return ra_v * c_v * c.crossing_per_tau(v_lo, vs - vd, v_hi);
+        if (v_lo >= knee) return (ra_v + rb_v) * c_v * c.crossing_per_tau(v_lo, vs, v_hi);
+        return ra_v * c_v * c.crossing_per_tau(v_lo, vs - vd, knee) +
+               (ra_v + rb_v) * c_v * c.crossing_per_tau(knee, vs, v_hi);
     }
 
     /// All five metrics at one set of parameter values (SI units).

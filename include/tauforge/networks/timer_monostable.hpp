@@ -100,6 +100,11 @@ struct timer_monostable {
     static constexpr std::array<design_slot, 2> design_slots{
         {{"R", part_kind::resistor, p_r}, {"C", part_kind::capacitor, p_c}}};
 
+    /// Corners bound every metric, except with a DC-bias curve on C: then the bias
+    /// current and the curve together are not proven monotone in the supply, and
+    /// analysis searches the interior.
+    bool corners_are_bounds() const { return !c.dc_bias; }
+
     /// Each parameter's interval; the unused one of threshold ratio and control
     /// voltage is fixed at 0. Throws `domain_error` for a threshold outside
     /// (V_sat, V_cc) at some corner, `invalid_argument` for negative delays,
@@ -125,6 +130,10 @@ struct timer_monostable {
         if (!(x[p_bias].low >= 0.0))
             detail::fail_invalid(fn, "threshold_bias.low", threshold_bias.low,
                                  "a non-negative current drawn from the timing node");
+        c.check_rating(fn, "supply.high", supply.high);
+        c.check_bias_covers(fn, control_voltage ? "control_voltage.high" : "upper_threshold.high x supply.high",
+                            voltage::from_value(control_voltage ? x[p_control].high
+                                                                : x[p_ratio].high * x[p_supply].high));
         const double vsat = x[p_sat].high;
         if (control_voltage) {
             if (!(x[p_control].high < x[p_supply].low))
@@ -162,10 +171,12 @@ struct timer_monostable {
                 detail::value_text(current::from_value((vcc - vth) / rr)) +
                 ", or the capacitor never reaches the threshold");
         const double v_hold = held_level(rr, vcc, vsat, ron, ib);
-        const double width = detail::rc::crossing_time(v_hold, v_final, vth, rr * cc) + x[p_delay];
+        const double width = rr * cc * c.crossing_per_tau(v_hold, v_final, vth) + x[p_delay];
+        const double tau_discharge = cc * (rr * ron / (rr + ron));
         const double recovery =
-            ron > 0.0 ? settling_time(recovery_fraction, duration::from_value(cc * (rr * ron / (rr + ron)))).value()
-                      : 0.0;
+            !(ron > 0.0) ? 0.0
+            : c.dc_bias  ? tau_discharge * c.crossing_per_tau(vth, v_hold, v_hold + recovery_fraction * (vth - v_hold))
+                         : settling_time(recovery_fraction, duration::from_value(tau_discharge)).value();
         return {width, recovery, 1.0 / (width + recovery)};
     }
 
