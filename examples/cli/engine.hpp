@@ -320,6 +320,8 @@ N build_network(const network_def<N>& def, const request& rq, part_use use) {
                 } else {
                     if (p.tcr) part.tempco = *p.tcr;
                     if (p.dielectric) part.tempco = *p.dielectric;
+                    if (p.rated_voltage) part.rated_voltage = tauforge::voltage::from_value(*p.rated_voltage);
+                    if (p.size) part.dc_bias = tauforge::dc_bias_curve::class2_estimate(*part.rated_voltage, *p.size);
                 }
                 if (use == part_use::marked && (!p.value || !p.tol))
                     throw usage_error(what + ": " + (p.value ? "no tolerance" : "no value") + "; expected e.g. --part " +
@@ -367,7 +369,11 @@ std::vector<part_row> part_rows(const network_def<N>& def, const N& n, const std
                 row.value = part.nominal.value();
                 row.tol = part.tol;
                 if constexpr (std::is_same_v<std::remove_cvref_t<decltype(part)>, tauforge::resistor>) row.tempco = tempco_text(part.tcr);
-                else row.tempco = tempco_text(part.tempco);
+                else {
+                    row.tempco = tempco_text(part.tempco);
+                    if (part.rated_voltage) row.tempco += " " + tauforge::format(*part.rated_voltage);
+                    if (part.dc_bias) row.tempco += part.dc_bias->estimate ? " DC bias (estimate)" : " DC bias";
+                }
             },
             b.member);
         if (fitted) out.push_back(std::move(row));

@@ -272,6 +272,23 @@ part_text parse_part(std::string_view text, tauforge::part_kind kind, std::strin
             p.tcr = ppm_band::symmetric(v);
             continue;
         }
+        static constexpr std::array<std::pair<std::string_view, ceramic_case>, 5> cases{
+            {{"0402", ceramic_case::c0402}, {"0603", ceramic_case::c0603}, {"0805", ceramic_case::c0805},
+             {"1206", ceramic_case::c1206}, {"1210", ceramic_case::c1210}}};
+        const auto size = std::find_if(cases.begin(), cases.end(), [&](const auto& c) { return c.first == field; });
+        if (size != cases.end()) {
+            once(p.size.has_value(), "case size");
+            if (kind == part_kind::resistor) fail(what, "\"" + std::string(field) + "\" is a capacitor case size; expected no case size for a resistor");
+            p.size = size->second;
+            continue;
+        }
+        if (!lw.empty() && lw.back() == 'v') {
+            once(p.rated_voltage.has_value(), "rated voltage");
+            if (kind == part_kind::resistor) fail(what, "\"" + std::string(field) + "\" is a voltage rating; expected none for a resistor");
+            p.rated_voltage = named(what, [&] { return parse<voltage>(field).value(); });
+            if (!(*p.rated_voltage > 0.0)) fail(what, "rated voltage = " + std::string(field) + " is invalid; expected a positive voltage");
+            continue;
+        }
         if (field.find('%') != field.npos || is_tolerance_letter(field)) {
             once(p.tol.has_value(), "tolerance");
             p.tol = parse_band(field, what);
@@ -282,6 +299,10 @@ part_text parse_part(std::string_view text, tauforge::part_kind kind, std::strin
                                               : named(what, [&] { return parse<capacitance>(field).value(); });
         if (!(*p.value > 0.0)) fail(what, "value = " + std::string(field) + " is invalid; expected a positive value");
     }
+    if (p.size && !(p.dielectric && p.rated_voltage))
+        fail(what, "\"" + std::string(text) + "\" gives a case size without " +
+                       (p.dielectric ? "a rated voltage" : "a class 2 dielectric") +
+                       "; expected a class 2 part such as C=X7R,16V,0603 (the case size and rating select a generic DC-bias estimate)");
     return p;
 }
 

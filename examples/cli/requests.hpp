@@ -100,6 +100,8 @@ struct part_text {
     std::optional<tolerance> tol;
     std::optional<tauforge::ppm_band> tcr;
     std::optional<tauforge::dielectric_class> dielectric;
+    std::optional<double> rated_voltage;         ///< V, a field such as 16V (capacitors)
+    std::optional<tauforge::ceramic_case> size;  ///< a case code such as 0603: a class 2 DC-bias estimate
 };
 part_text parse_part(std::string_view text, tauforge::part_kind kind, std::string_view what);
 
