@@ -12,6 +12,7 @@
 #include <tauforge/analysis/worst_case.hpp>
 #include <tauforge/dc_bias.hpp>
 #include <tauforge/networks/debounce.hpp>
+#include <tauforge/networks/pulse_filter.hpp>
 #include <tauforge/networks/rc_delay.hpp>
 #include <tauforge/networks/schmitt_oscillator.hpp>
 #include <tauforge/networks/timer_astable.hpp>
@@ -307,11 +308,28 @@ TEST_CASE("voltage checks: above the rating, beyond the curve, a ramp, and netwo
                          "set: a ramp into a capacitance that varies with its voltage has no exact solution here",
                          tauforge::invalid_argument);
 
-    debounce db;
-    db.c = {.nominal = 1_uF, .dc_bias = straight_curve()};
-    CHECK_THROWS_WITH_AS(db.ranges(),
-                         "debounce::ranges: c.dc_bias = a curve up to 10 V is invalid; expected no DC-bias curve: this "
-                         "network does not follow the voltage across c; give its derated value instead "
+    pulse_filter f;
+    f.c = {.nominal = 1_uF, .dc_bias = straight_curve()};
+    CHECK_THROWS_WITH_AS(f.ranges(),
+                         "pulse_filter::ranges: c.dc_bias = a curve up to 10 V is invalid; expected no DC-bias curve: "
+                         "this network does not follow the voltage across c; give its derated value instead "
                          "(dc_bias_curve::at)",
                          tauforge::invalid_argument);
+}
+
+TEST_CASE("a debouncer with a DC-biased capacitor matches Odeint for press and release") {
+    // Press: C0 k(v) dv/dt = -v / R2 from 5 V to VT- = 1/3 x 5 V; release:
+    // C0 k(v) dv/dt = (5 - v)/(R1 + R2) from 0 to VT+ = 2/3 x 5 V.
+    debounce d;
+    d.r1 = {.nominal = 10_kohm};
+    d.r2 = {.nominal = 47_kohm};
+    d.c = {.nominal = 330_nF, .dc_bias = falling_curve()};
+    const auto x = d.ranges();
+    std::array<double, 8> p{};
+    for (std::size_t i = 0; i < p.size(); ++i) p[i] = x[i].nominal;
+    const auto t = d.evaluate(p);
+    const dc_bias_curve c = falling_curve();
+    CHECK_REL(t[debounce::press_delay], ode_crossing(c, 47e3, 330e-9, 5.0, 0.0, 5.0 / 3.0), 1e-8);
+    CHECK_REL(t[debounce::release_delay], ode_crossing(c, 57e3, 330e-9, 0.0, 5.0, 10.0 / 3.0), 1e-8);
+    CHECK(corners_are_bounds(d));
 }

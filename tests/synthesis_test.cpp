@@ -4,7 +4,9 @@
 #include "approx.hpp"
 #include "random_cases.hpp"
 
+#include <tauforge/capacitor_kinds.hpp>
 #include <tauforge/networks/rc_delay.hpp>
+#include <tauforge/networks/timer_monostable.hpp>
 #include <tauforge/networks/timer_astable.hpp>
 #include <tauforge/series.hpp>
 #include <tauforge/synthesis.hpp>
@@ -404,4 +406,53 @@ TEST_CASE("synthesis: pruning ranks ties on margin by the later keys exactly as 
     for (std::size_t i = 1; i < full.designs.size(); ++i) ties += full.designs[i].margin == full.designs[0].margin;
     CHECK(ties >= 2);  // the case the later keys decide is really there
     CHECK(fast.evaluated * 100 < full.evaluated);
+}
+
+TEST_CASE("a slot offered as film and as X7R parts: the tight window goes to film, and the notes say why") {
+    // One-shot, 1 ms +/- 10 % from -20 to +70 °C. X7R at +/-10 % with its +/-15 % temperature
+    // envelope (EIA-198 (from memory)) spreads the width by more than the window on its own:
+    // 0.99 x 0.9 x 0.85 .. 1.01 x 1.1 x 1.15 of nominal, about -24/+28 %. PP film at 5 %
+    // (-300..-100 ppm/K over 45 K either side of 25 °C: at most 1.35 %) can hold it.
+    timer_monostable m;
+    m.r = {.nominal = 100_kohm, .tol = tolerance::symmetric(0.01)};
+    m.conditions = {.t_min = celsius{-20.0}, .t_max = 70_degC};
+    timing_spec<timer_monostable> spec;
+    spec.around("pulse width", 1_ms, tolerance::symmetric(0.10));
+    const auto r = candidates(value_set<resistance>::from_series(e_series::e96, 10_kohm, 1_Mohm));
+    const auto e12 = value_set<capacitance>::from_series(e_series::e12, 1_nF, 1_uF);
+    capacitor x7r_part = make_capacitor(x7r_ceramic, 1_nF);
+    x7r_part.rated_voltage = 16_V;
+    x7r_part.dc_bias = dc_bias_curve::class2_estimate(16_V, ceramic_case::c0603);
+    const auto film = candidates(value_set<capacitance>::from_series(e_series::e12, 1_nF, 1_uF, tolerance::symmetric(0.05)),
+                                 {"PP film", make_capacitor(pp_film, 1_nF)});
+    const auto both = merge_candidates(film, candidates(e12, {"X7R ceramic", x7r_part}));
+
+    const auto mixed = synthesize(m, spec, {r, both}, {.top_k = 5});
+    REQUIRE(mixed.feasible());
+    for (const auto& d : mixed.designs) {
+        REQUIRE(d.parts[1].model);
+        CHECK(d.parts[1].model->name == "PP film");
+        CHECK(std::get<ppm_band>(d.network.c.tempco) == pp_film_tc);  // the design's part is the model's
+    }
+    REQUIRE(mixed.notes.size() == 2);
+    CHECK(mixed.notes[0].rfind("C as PP film: best R = ", 0) == 0);
+    CHECK(mixed.notes[1].rfind("C as X7R ceramic: no design holds pulse width within [900 \u00B5s, 1.1 ms]: the "
+                               "parts' tolerances and operating ranges alone spread it wider than the window",
+                               0) == 0);
+
+    // The same designs as a search over the film parts alone (each kind is searched on its own).
+    const auto alone = synthesize(m, spec, {r, film}, {.top_k = 5});
+    REQUIRE(alone.designs.size() == mixed.designs.size());
+    for (std::size_t i = 0; i < alone.designs.size(); ++i) {
+        CHECK(alone.designs[i].parts[0].value == mixed.designs[i].parts[0].value);
+        CHECK(alone.designs[i].parts[1].value == mixed.designs[i].parts[1].value);
+        CHECK(alone.designs[i].margin == mixed.designs[i].margin);
+    }
+    CHECK(alone.notes.empty());
+
+    // A capacitor model in a resistor slot is refused.
+    CHECK_THROWS_WITH_AS(synthesize(m, spec, {film, both}),
+                         "synthesize: candidate model \"PP film\" of slot 0 is invalid; expected a resistor model "
+                         "for this slot",
+                         tauforge::invalid_argument);
 }

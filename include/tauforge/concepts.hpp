@@ -50,10 +50,18 @@ struct design_slot {
     std::size_t parameter;
 };
 
-/// A value chosen for a design slot with the tolerance it is bought at.
+struct resistor;   // parts.hpp
+struct capacitor;  // parts.hpp
+
+/// A value chosen for a design slot with the tolerance it is bought at, and,
+/// when the slot's candidates come in several kinds of part, the kind: the
+/// part's behaviour apart from value and tolerance (TCR, dielectric, DC bias,
+/// ageing, leakage) then comes from that model instead of the network's part.
 struct part_choice {
     double value = 0.0;  ///< SI base unit (Ω or F)
     tolerance tol{};
+    const resistor* resistor_model = nullptr;    ///< for a resistor slot, or none
+    const capacitor* capacitor_model = nullptr;  ///< for a capacitor slot, or none
 };
 
 /// `TimingNetwork<N>`: N names its parameters and metrics in static tables,

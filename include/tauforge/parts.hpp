@@ -290,9 +290,10 @@ struct resistor {
         detail::check_conditions(fn, c);
         return detail::fold(nominal.value(), tol, detail::tcr_factor(fn, "tcr", tcr, c), aging);
     }
-    /// The same resistor bought at another value and tolerance (synthesis' `part_choice`).
+    /// The same resistor bought at another value and tolerance (synthesis' `part_choice`),
+    /// with the behaviour of the choice's model when it has one.
     resistor with_choice(const part_choice& p) const {
-        resistor r = *this;
+        resistor r = p.resistor_model ? *p.resistor_model : *this;
         r.nominal = resistance::from_value(p.value);
         r.tol = p.tol;
         return r;
@@ -467,15 +468,28 @@ struct capacitor {
         }
         return out;
     }
-    /// The same capacitor bought at another value and tolerance (synthesis' `part_choice`).
+    /// The same capacitor bought at another value and tolerance (synthesis' `part_choice`),
+    /// with the behaviour of the choice's model when it has one.
     capacitor with_choice(const part_choice& p) const {
-        capacitor r = *this;
+        capacitor r = p.capacitor_model ? *p.capacitor_model : *this;
         r.nominal = capacitance::from_value(p.value);
         r.tol = p.tol;
         return r;
     }
     /// Memberwise equality.
     friend bool operator==(const capacitor&, const capacitor&) = default;
+};
+
+/// A kind of part a synthesis slot may be bought as: a name for reports and the
+/// part's behaviour apart from value and tolerance (its nominal and tol are
+/// replaced by each candidate's). See synthesis.hpp's `candidates(set, model)`.
+struct part_model {
+    std::string name;                       ///< "X7R ceramic", "PP film", shown in designs and notes
+    std::variant<resistor, capacitor> part;  ///< the behaviour: TCR, dielectric, DC bias, ageing, leakage
+
+    /// The part_choice pointers for this model.
+    const resistor* as_resistor() const { return std::get_if<resistor>(&part); }
+    const capacitor* as_capacitor() const { return std::get_if<capacitor>(&part); }
 };
 
 }  // namespace tauforge

@@ -33,6 +33,7 @@
 #include "tauforge/detail/box_bounds.hpp"
 #include "tauforge/detail/validate.hpp"
 #include "tauforge/notation.hpp"
+#include "tauforge/parts.hpp"
 #include "tauforge/series.hpp"
 
 #include <algorithm>
@@ -41,6 +42,7 @@
 #include <cstddef>
 #include <cstdint>
 #include <limits>
+#include <memory>
 #include <optional>
 #include <string>
 #include <string_view>
@@ -137,12 +139,14 @@ private:
 using series_rank = std::uint8_t;
 inline constexpr series_rank stock_rank = 7;
 
-/// One value a slot may take, with the tolerance it is bought at.
+/// One value a slot may take, with the tolerance it is bought at and, when the
+/// slot is offered as several kinds of part, the kind.
 struct candidate_value {
     double value = 0.0;  ///< SI base unit
     tolerance tol{};
     series_rank rank = stock_rank;
-    std::string_view origin = "stock";  ///< "E24", "stock", ... (static storage)
+    std::string_view origin = "stock";          ///< "E24", "stock", ... (static storage)
+    std::shared_ptr<const part_model> model{};  ///< the kind of part, or none: the network's own part
 };
 
 /// A value set as a slot's candidate list (sorted, with tolerance and series).
@@ -153,7 +157,32 @@ std::vector<candidate_value> candidates(const value_set<Q>& set) {
     for (const auto& p : set)
         out.push_back({p.value.value(), p.tol,
                        p.series ? static_cast<series_rank>(*p.series) : stock_rank,
-                       p.series ? series_name(*p.series) : std::string_view("stock")});
+                       p.series ? series_name(*p.series) : std::string_view("stock"), nullptr});
+    return out;
+}
+
+/// A value set bought as one kind of part: each candidate takes `model`'s behaviour
+/// (dielectric, DC bias, ageing, TCR ...) with its own value and tolerance. Merge the
+/// lists of several kinds with `merge_candidates`; synthesis then searches each kind
+/// on its own and says in `synthesis_result::notes` how each fared.
+///
+///     auto c = merge_candidates(candidates(e12_c, {"PP film", make_capacitor(pp_film, 1_nF)}),
+///                               candidates(e12_c, {"X7R ceramic", x7r_part}));
+template <class Q>
+std::vector<candidate_value> candidates(const value_set<Q>& set, part_model model) {
+    auto out = candidates(set);
+    const auto shared = std::make_shared<const part_model>(std::move(model));
+    for (auto& c : out) c.model = shared;
+    return out;
+}
+
+/// Two candidate lists as one, sorted by value (stable: a's entries first among equal values).
+inline std::vector<candidate_value> merge_candidates(const std::vector<candidate_value>& a,
+                                                     const std::vector<candidate_value>& b) {
+    std::vector<candidate_value> out;
+    out.reserve(a.size() + b.size());
+    std::merge(a.begin(), a.end(), b.begin(), b.end(), std::back_inserter(out),
+               [](const candidate_value& x, const candidate_value& y) { return x.value < y.value; });
     return out;
 }
 
@@ -203,6 +232,9 @@ struct synthesis_result {
     std::vector<design<N>> designs;  ///< best first; empty when infeasible
     infeasibility why = infeasibility::none;
     std::string reason;              ///< names the ruling constraint when empty
+    /// When a slot's candidates come in several kinds of part (`candidates(set, model)`):
+    /// one line per combination of kinds, with its best design or why none holds.
+    std::vector<std::string> notes;
     std::uint64_t evaluated = 0;     ///< candidate designs analysed
     bool feasible() const noexcept { return !designs.empty(); }
 };
@@ -243,7 +275,10 @@ design<N> score_design(const N& base, const std::vector<requirement>& reqs,
                        const std::array<candidate_value, N::design_slots.size()>& parts) {
     constexpr std::size_t S = N::design_slots.size();
     std::array<part_choice, S> choice{};
-    for (std::size_t s = 0; s < S; ++s) choice[s] = {parts[s].value, parts[s].tol};
+    for (std::size_t s = 0; s < S; ++s) {
+        const part_model* m = parts[s].model.get();
+        choice[s] = {parts[s].value, parts[s].tol, m ? m->as_resistor() : nullptr, m ? m->as_capacitor() : nullptr};
+    }
     design<N> d;
     d.parts = parts;
     d.network = base.with_parts(choice);
@@ -304,6 +339,11 @@ bool ranks_before(const design<N>& a, const design<N>& b) {
         if (a.parts[s].value != b.parts[s].value) return a.parts[s].value < b.parts[s].value;
     for (std::size_t s = 0; s < a.parts.size(); ++s)
         if (a.parts[s].tol.widest() != b.parts[s].tol.widest()) return a.parts[s].tol.widest() < b.parts[s].tol.widest();
+    for (std::size_t s = 0; s < a.parts.size(); ++s) {
+        const std::string_view ma = a.parts[s].model ? std::string_view(a.parts[s].model->name) : std::string_view();
+        const std::string_view mb = b.parts[s].model ? std::string_view(b.parts[s].model->name) : std::string_view();
+        if (ma != mb) return ma < mb;
+    }
     return false;
 }
 
@@ -374,6 +414,7 @@ std::string parts_text(const design<N>& d) {
         const double v = d.parts[i].value;
         s += N::design_slots[i].kind == part_kind::resistor ? format(resistance::from_value(v))
                                                             : format(capacitance::from_value(v));
+        if (d.parts[i].model) s += " " + d.parts[i].model->name;
     }
     return s;
 }
@@ -418,7 +459,7 @@ void explain_infeasible(synthesis_result<N>& r, const std::vector<requirement>& 
 }
 
 template <std::size_t S>
-void check_candidates(const std::array<std::vector<candidate_value>, S>& c) {
+void check_candidates(const std::array<std::vector<candidate_value>, S>& c, const std::array<part_kind, S>& slot_kinds) {
     for (std::size_t s = 0; s < S; ++s) {
         if (c[s].empty())
             throw invalid_argument("synthesize: candidates for slot " + std::to_string(s) +
@@ -430,6 +471,12 @@ void check_candidates(const std::array<std::vector<candidate_value>, S>& c) {
             if (i && !(c[s][i - 1].value <= c[s][i].value))
                 throw invalid_argument("synthesize: candidates for slot " + std::to_string(s) +
                                        " are invalid; expected them sorted by value");
+            if (const part_model* m = c[s][i].model.get();
+                m && (slot_kinds[s] == part_kind::resistor ? !m->as_resistor() : !m->as_capacitor()))
+                throw invalid_argument("synthesize: candidate model \"" + m->name + "\" of slot " + std::to_string(s) +
+                                       " is invalid; expected a " +
+                                       (slot_kinds[s] == part_kind::resistor ? "resistor" : "capacitor") +
+                                       " model for this slot");
         }
     }
 }
@@ -711,44 +758,114 @@ void solved_search(const N& base, const std::vector<requirement>& reqs,
     if (!pruned || top.empty()) fast_search(base, reqs, cands, how, top);
 }
 
-}  // namespace detail
 
-/// Chooses parts for `base`'s design slots from `cands` (one sorted list per
-/// slot) so that every requirement of `spec` holds at worst case, and returns
-/// the best `options.top_k` designs. An infeasible spec is not an error: the
-/// result is empty and `reason` names the ruling constraint.
+
+/// One search over candidate lists whose slots each hold one kind of part (or none).
 template <DesignableNetwork N>
-synthesis_result<N> synthesize(const N& base, const timing_spec<N>& spec,
-                               const std::array<std::vector<candidate_value>, N::design_slots.size()>& cands,
-                               synthesis_options options = {}) {
-    if (options.top_k < 1 || options.top_k > 1000)
-        throw invalid_argument("synthesize: top_k = " + std::to_string(options.top_k) +
-                               " is invalid; expected 1 to 1000");
-    const auto& reqs = spec.requirements();
-    if (reqs.empty()) throw invalid_argument("synthesize: spec = empty is invalid; expected at least one window");
-    detail::check_candidates(cands);
-    detail::top_designs<N> top(options.top_k);
-    bool fast = false;
+void search_one_kind(const N& base, const std::vector<requirement>& reqs,
+                     const std::array<std::vector<candidate_value>, N::design_slots.size()>& cands,
+                     const synthesis_options& options, top_designs<N>& top) {
     if constexpr (SolvableNetwork<N>) {
         if (options.method != search_method::exhaustive) {
-            if (auto pick = detail::choose_solved_slot(base, reqs, cands)) {
-                detail::solved_search(base, reqs, cands,
-                                      detail::make_solved_line(reqs, cands[pick->first], pick->first, pick->second),
-                                      top);
-                fast = true;
-            } else if (options.method == search_method::fast) {
+            if (auto pick = choose_solved_slot(base, reqs, cands)) {
+                solved_search(base, reqs, cands, make_solved_line(reqs, cands[pick->first], pick->first, pick->second),
+                              top);
+                return;
+            }
+            if (options.method == search_method::fast)
                 throw invalid_argument("synthesize: method = fast is invalid for this spec; expected a window on a "
                                        "metric the network can solve a slot for");
-            }
         }
     } else {
         if (options.method == search_method::fast)
             throw invalid_argument("synthesize: method = fast is invalid for this network; expected a "
                                    "SolvableNetwork (it has no solve_slot)");
     }
-    if (!fast) detail::exhaustive_search(base, reqs, cands, top);
+    exhaustive_search(base, reqs, cands, top);
+}
+
+/// The candidate lists split by kind of part: one entry per combination of the
+/// kinds offered in each slot (a single entry when no slot mixes kinds), with a
+/// label such as "C as X7R ceramic" naming the kinds of the mixed slots.
+template <DesignableNetwork N>
+std::vector<std::pair<std::string, std::array<std::vector<candidate_value>, N::design_slots.size()>>> split_by_kind(
+    const std::array<std::vector<candidate_value>, N::design_slots.size()>& cands) {
+    constexpr std::size_t S = N::design_slots.size();
+    std::array<std::vector<const part_model*>, S> kinds;
+    for (std::size_t s = 0; s < S; ++s)
+        for (const auto& c : cands[s])
+            if (std::find(kinds[s].begin(), kinds[s].end(), c.model.get()) == kinds[s].end())
+                kinds[s].push_back(c.model.get());
+    std::vector<std::pair<std::string, std::array<std::vector<candidate_value>, S>>> out;
+    std::array<std::size_t, S> idx{};
+    for (;;) {
+        std::string label;
+        std::array<std::vector<candidate_value>, S> part;
+        for (std::size_t s = 0; s < S; ++s) {
+            const part_model* k = kinds[s][idx[s]];
+            for (const auto& c : cands[s])
+                if (c.model.get() == k) part[s].push_back(c);
+            if (kinds[s].size() > 1)
+                label += (label.empty() ? "" : ", ") + std::string(N::design_slots[s].name) + " as " +
+                         (k ? k->name : std::string("the network's part"));
+        }
+        out.emplace_back(std::move(label), std::move(part));
+        std::size_t s = 0;
+        while (s < S && ++idx[s] == kinds[s].size()) idx[s++] = 0;
+        if (s == S) return out;
+    }
+}
+
+}  // namespace detail
+
+/// Chooses parts for `base`'s design slots from `cands` (one sorted list per
+/// slot) so that every requirement of `spec` holds at worst case, and returns
+/// the best `options.top_k` designs. An infeasible spec is not an error: the
+/// result is empty and `reason` names the ruling constraint. A slot whose
+/// candidates come in several kinds of part (`candidates(set, model)`) is searched
+/// kind by kind, the designs ranked together, and `notes` says how each kind fared.
+template <DesignableNetwork N>
+synthesis_result<N> synthesize(const N& base, const timing_spec<N>& spec,
+                               const std::array<std::vector<candidate_value>, N::design_slots.size()>& cands,
+                               synthesis_options options = {}) {
+    constexpr std::size_t S = N::design_slots.size();
+    if (options.top_k < 1 || options.top_k > 1000)
+        throw invalid_argument("synthesize: top_k = " + std::to_string(options.top_k) +
+                               " is invalid; expected 1 to 1000");
+    const auto& reqs = spec.requirements();
+    if (reqs.empty()) throw invalid_argument("synthesize: spec = empty is invalid; expected at least one window");
+    std::array<part_kind, S> slot_kinds{};
+    for (std::size_t s = 0; s < S; ++s) slot_kinds[s] = N::design_slots[s].kind;
+    detail::check_candidates(cands, slot_kinds);
     synthesis_result<N> r;
-    r.evaluated = top.evaluated();
+    const auto groups = detail::split_by_kind<N>(cands);
+    detail::top_designs<N> top(options.top_k);
+    if (groups.size() == 1) {
+        detail::search_one_kind(base, reqs, cands, options, top);
+        r.evaluated = top.evaluated();
+    } else {
+        // Each design belongs to one combination of kinds, so the top k of the
+        // union is the top k of the groups' top k lists together.
+        for (const auto& [label, group] : groups) {
+            detail::top_designs<N> one(options.top_k);
+            detail::search_one_kind(base, reqs, group, options, one);
+            r.evaluated += one.evaluated();
+            const auto best = one.best_any();
+            auto kept = std::move(one).take();
+            if (kept.empty()) {
+                synthesis_result<N> why;
+                detail::explain_infeasible(why, reqs, best);
+                r.notes.push_back(label + ": " + why.reason);
+                if (best) top.offer(design<N>(*best));
+                continue;
+            }
+            const auto& b = kept.front();
+            const auto& tight = reqs[b.tight_requirement];
+            r.notes.push_back(label + ": best " + detail::parts_text(b) + ", margin " + format_percent(b.margin) +
+                              " (" + std::string(N::metrics[tight.metric].name) + (b.tight_at_high ? " max)" : " min)"));
+            for (auto& d : kept) top.offer(std::move(d));
+        }
+    }
     const auto best = top.best_any();
     r.designs = std::move(top).take();
     if (r.designs.empty()) detail::explain_infeasible(r, reqs, best);

@@ -24,7 +24,10 @@
 ///     d.upper_threshold = ranged<voltage>::between(1.6_V, 2.3_V);   // absolute VT+
 ///     auto f = tauforge::check_debounce(d, 10_ms, 60_ms);          // f.holds(), f.problems
 ///
-/// Each delay moves one way with every parameter, so corner bounds are exact.
+/// Each delay moves one way with every parameter, so corner bounds are exact; also
+/// with a DC-bias curve on C (dc_bias.hpp), which only ever lowers C as the voltage
+/// rises: the press integral of k(v)/v from VT- to Vdd grows with Vdd and falls
+/// with VT-, the release integral of k(v)/(Vdd - v) from 0 to VT+ the other way.
 
 #include "tauforge/concepts.hpp"
 #include "tauforge/detail/analysis_common.hpp"
@@ -88,8 +91,8 @@ struct debounce {
             detail::parts_fail(fn, "supply.low", detail::value_text(supply.low), "a positive supply voltage");
         const auto up = threshold_ranges(fn, "upper_threshold", upper_threshold, vs, supply.low);
         const auto down = threshold_ranges(fn, "lower_threshold", lower_threshold, vs, supply.low);
-        c.require_no_bias_curve(fn);
         c.check_rating(fn, "supply.high", supply.high);
+        c.check_bias_covers(fn, "supply.high", supply.high);  // C charges to the supply between presses
         return {r1.range(conditions), r2.range(conditions), c.range(conditions), vs,
                 up[0],                down[0],              up[1],              down[1]};
     }
@@ -99,8 +102,8 @@ struct debounce {
         const double vdd = x[p_supply];
         const double vt_up = uses_ratio(upper_threshold) ? x[p_upper] * vdd : x[p_upper_v];
         const double vt_down = uses_ratio(lower_threshold) ? x[p_lower] * vdd : x[p_lower_v];
-        return {detail::rc::crossing_time(vdd, 0.0, vt_down, x[p_r2] * x[p_c]),
-                detail::rc::crossing_time(0.0, vdd, vt_up, (x[p_r1] + x[p_r2]) * x[p_c])};
+        return {x[p_r2] * x[p_c] * c.crossing_per_tau(vdd, 0.0, vt_down),
+                (x[p_r1] + x[p_r2]) * x[p_c] * c.crossing_per_tau(0.0, vdd, vt_up)};
     }
 
     /// A copy with R1, R2 and C bought at the given values and tolerances.
@@ -120,11 +123,11 @@ struct debounce {
         if (!(target > 0.0) || slot > 2 || metric > 1) return nan;
         const double vdd = supply.nominal.value();
         if (metric == press_delay) {
-            const double k = detail::rc::crossing_time(vdd, 0.0, nominal_level(lower_threshold, vdd), 1.0);
+            const double k = c.crossing_per_tau(vdd, 0.0, nominal_level(lower_threshold, vdd));
             if (slot == 0) return nan;
             return slot == 1 ? target / (k * v[2]) : target / (k * v[1]);
         }
-        const double k = detail::rc::crossing_time(0.0, vdd, nominal_level(upper_threshold, vdd), 1.0);
+        const double k = c.crossing_per_tau(0.0, vdd, nominal_level(upper_threshold, vdd));
         switch (slot) {
             case 0: return target / (k * v[2]) - v[1];
             case 1: return target / (k * v[2]) - v[0];

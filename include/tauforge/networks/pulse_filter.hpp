@@ -146,8 +146,8 @@ struct pulse_filter {
     std::array<interval, 6> ranges() const {
         constexpr std::string_view fn = "pulse_filter::ranges";
         detail::check_settling_fraction(fn, settling_fraction);
-        const auto p = detail::pulse_ranges(fn, input);
         c.require_no_bias_curve(fn);
+        const auto p = detail::pulse_ranges(fn, input);
         c.check_rating(fn, "the input's amplitude", voltage::from_value(p[0].high));
         return {r.range(conditions), c.range(conditions), p[0], p[1], p[2], p[3]};
     }
@@ -236,10 +236,10 @@ struct two_stage_pulse_filter {
     std::array<interval, 8> ranges() const {
         constexpr std::string_view fn = "two_stage_pulse_filter::ranges";
         detail::check_settling_fraction(fn, settling_fraction);
-        const auto p = detail::pulse_ranges(fn, input);
-        const voltage amplitude = voltage::from_value(p[0].high);
         c1.require_no_bias_curve(fn, "c1");
         c2.require_no_bias_curve(fn, "c2");
+        const auto p = detail::pulse_ranges(fn, input);
+        const voltage amplitude = voltage::from_value(p[0].high);
         c1.check_rating(fn, "the input's amplitude", amplitude, "c1");
         c2.check_rating(fn, "the input's amplitude", amplitude, "c2");
         return {r1.range(conditions), c1.range(conditions), r2.range(conditions), c2.range(conditions),
