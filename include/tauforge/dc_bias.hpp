@@ -135,6 +135,15 @@ struct dc_bias_curve {
             [this](double v) { return at(v); });
     }
 
+    /// The crossing time for a ramp input (rc.hpp's ramp_crossing_time) into C(0 V) k(v),
+    /// tau = R C(0 V): rc.hpp's ramp_crossing_time_varying over this curve.
+    double ramp_crossing_time(double v_begin, double v_end, double rise, double v_start, double v_threshold,
+                              double tau) const {
+        return detail::rc::ramp_crossing_time_varying(
+            v_begin, v_end, rise, v_start, v_threshold, tau, [this](double p, double q) { return next_break(p, q); },
+            [this](double v) { return at(v); });
+    }
+
     /// C_eff / C(0 V) for an RC crossing from v_start to v_threshold towards v_final:
     /// the exact time-weighted mean of the curve over the swing (see the header
     /// comment); at(v_start) for a threshold at the start.

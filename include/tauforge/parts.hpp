@@ -427,6 +427,14 @@ struct capacitor {
                        : detail::rc::crossing_time(v_start, v_final, v_threshold, 1.0);
     }
 
+    /// rc.hpp's ramp_crossing_time (tau = R C without bias), or with a DC-bias curve the
+    /// integration over it (dc_bias_curve::ramp_crossing_time).
+    double ramp_crossing_time(double v_begin, double v_end, double rise, double v_start, double v_threshold,
+                              double tau) const {
+        return dc_bias ? dc_bias->ramp_crossing_time(v_begin, v_end, rise, v_start, v_threshold, tau)
+                       : detail::rc::ramp_crossing_time(v_begin, v_end, rise, v_start, v_threshold, tau);
+    }
+
     /// For network `fn`: `domain_error` when the highest voltage the network can put
     /// across the part, `v_max` (from `what`, e.g. "supply.high"), exceeds `rated_voltage`.
     void check_rating(std::string_view fn, std::string_view what, voltage v_max, std::string_view part = "c") const {

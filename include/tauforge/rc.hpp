@@ -14,6 +14,7 @@
 #include "tauforge/units.hpp"
 
 
+#include <algorithm>
 #include <cmath>
 #include <numbers>
 #include <string>
@@ -210,6 +211,73 @@ inline double ramp_crossing_time(double v_begin, double v_end, double rise, doub
     // f(0) < 0 here; if the capacitor first moves away (v_begin beyond v_cap0 on the
     // wrong side), f stays negative until its minimum, and the bracket still holds.
     return bracketed_root(f, 0.0, rise, f(0.0), f_end);
+}
+
+/// One Dormand-Prince 5(4) step of the scalar ODE v' = f(t, v): the fifth-order
+/// value and the difference to the embedded fourth-order one (the error estimate).
+struct dp_step {
+    double v = 0.0, error = 0.0;
+};
+template <class F>
+dp_step dormand_prince_step(F f, double t, double v, double h) {
+    const double k1 = f(t, v);
+    const double k2 = f(t + h / 5.0, v + h * (k1 / 5.0));
+    const double k3 = f(t + h * 0.3, v + h * (3.0 / 40.0 * k1 + 9.0 / 40.0 * k2));
+    const double k4 = f(t + h * 0.8, v + h * (44.0 / 45.0 * k1 - 56.0 / 15.0 * k2 + 32.0 / 9.0 * k3));
+    const double k5 = f(t + h * 8.0 / 9.0, v + h * (19372.0 / 6561.0 * k1 - 25360.0 / 2187.0 * k2 +
+                                                      64448.0 / 6561.0 * k3 - 212.0 / 729.0 * k4));
+    const double k6 = f(t + h, v + h * (9017.0 / 3168.0 * k1 - 355.0 / 33.0 * k2 + 46732.0 / 5247.0 * k3 +
+                                        49.0 / 176.0 * k4 - 5103.0 / 18656.0 * k5));
+    const double v5 =
+        v + h * (35.0 / 384.0 * k1 + 500.0 / 1113.0 * k3 + 125.0 / 192.0 * k4 - 2187.0 / 6784.0 * k5 + 11.0 / 84.0 * k6);
+    const double k7 = f(t + h, v5);
+    const double err = h * ((35.0 / 384.0 - 5179.0 / 57600.0) * k1 + (500.0 / 1113.0 - 7571.0 / 16695.0) * k3 +
+                            (125.0 / 192.0 - 393.0 / 640.0) * k4 + (-2187.0 / 6784.0 + 92097.0 / 339200.0) * k5 +
+                            (11.0 / 84.0 - 187.0 / 2100.0) * k6 - 1.0 / 40.0 * k7);
+    return {v5, err};
+}
+
+/// Relative accuracy of the integration in ramp_crossing_time_varying.
+inline constexpr double varying_ramp_tolerance = 1e-12;
+
+/// The ramp input of ramp_crossing_time into a capacitance C0 k(v) (see
+/// crossing_per_tau_varying for k and next_break): C0 k(v) dv/dt = (u(t) - v)/R,
+/// tau = R C0. During the ramp there is no closed form: the ODE is integrated with
+/// an adaptive Dormand-Prince 5(4) to `varying_ramp_tolerance` of the voltage
+/// scale per step, a crossing in a step located with Brent's method on the step's
+/// length; after the ramp the exact closed form takes over. Same checks and
+/// errors as ramp_crossing_time.
+template <class NextBreak, class K>
+double ramp_crossing_time_varying(double v_begin, double v_end, double rise, double v_cap0, double vth, double tau,
+                                  NextBreak next_break, K k) {
+    constexpr std::string_view fn = "crossing_time";
+    check_ramp(fn, v_begin, v_end, rise, v_cap0, tau);
+    require_finite(fn, "v_threshold", voltage::from_value(vth), "a finite voltage");
+    if (vth == v_cap0) return 0.0;
+    const bool between = (v_cap0 < vth && vth < v_end) || (v_end < vth && vth < v_cap0);
+    if (!between) ramp_threshold_outside(fn, v_cap0, v_end, vth);
+    if (rise == 0.0) return tau * crossing_per_tau_varying(v_cap0, v_end, vth, next_break, k);
+    const double slope = (v_end - v_begin) / rise;
+    const auto f = [&](double t, double v) { return (v_begin + slope * t - v) / (tau * k(v)); };
+    const double side = vth > v_cap0 ? 1.0 : -1.0;
+    const double scale = varying_ramp_tolerance *
+                         std::max({std::abs(v_begin), std::abs(v_end), std::abs(v_cap0), std::abs(vth)});
+    double t = 0.0, v = v_cap0, h = std::min(rise, tau) * 1e-3;
+    while (t < rise) {
+        h = std::min(h, rise - t);
+        const dp_step s = dormand_prince_step(f, t, v, h);
+        const double err = std::abs(s.error);
+        if (err <= scale) {
+            if ((vth - s.v) * side <= 0.0) {  // crossed within this step: the step length that lands on vth
+                const auto g = [&](double len) { return len == 0.0 ? v - vth : dormand_prince_step(f, t, v, len).v - vth; };
+                return t + bracketed_root(g, 0.0, h, v - vth, s.v - vth);
+            }
+            t += h;
+            v = s.v;
+        }
+        h *= err > 0.0 ? std::clamp(0.9 * std::pow(scale / err, 0.2), 0.2, 5.0) : 5.0;
+    }
+    return rise + tau * crossing_per_tau_varying(v, v_end, vth, next_break, k);
 }
 
 /// The periodic steady state of a first-order stage (time constant tau) whose source

@@ -78,11 +78,11 @@ struct rc_delay {
 
     /// Corners bound the delay: it rises with R, C, the threshold and the leakage and
     /// falls with the supply. With a DC-bias curve that holds for a plain step (the
-    /// integral of k(v)/(vs - v) falls as vs rises, with k non-increasing); with
-    /// leakage or insulation too it is not proven, so analysis searches the interior.
+    /// integral of k(v)/(vs - v) falls as vs rises, with k non-increasing); with a
+    /// ramp, leakage or insulation too it is not proven, so analysis searches the interior.
     bool corners_are_bounds() const {
         const bool loaded = leakage.high.value() != 0.0 || leakage.low.value() != 0.0 || c.leakage ||
-                            c.leakage_limit || c.insulation;
+                            c.leakage_limit || c.insulation || rise_time.high.value() > 0.0;
         return !(c.dc_bias && loaded);
     }
 
@@ -120,10 +120,6 @@ struct rc_delay {
         const interval rise = rise_time.as_interval();
         if (!(rise.low >= 0.0))
             detail::parts_fail(fn, "rise_time.low", detail::value_text(rise_time.low), "a non-negative time");
-        if (c.dc_bias && rise.high > 0.0)
-            detail::parts_fail(fn, "rise_time.high", detail::value_text(rise_time.high),
-                               "0 s (a step) when c.dc_bias is set: a ramp into a capacitance that varies with "
-                               "its voltage has no exact solution here");
         c.check_rating(fn, "supply.high", supply.high);
         c.check_bias_covers(fn, threshold_voltage ? "threshold_voltage.high" : "threshold.high x supply.high",
                             voltage::from_value(threshold_voltage ? vth.high : k.high * vs.high));
@@ -200,11 +196,9 @@ private:
         return {begin.v_final.value(), end.v_final.value(), end.tau.value()};
     }
 
-    /// The crossing of vth from 0 V under drive d: rc.hpp's ramp crossing, or with a
-    /// DC-bias curve (a step only, checked by ranges()) the crossing over the curve.
+    /// The crossing of vth from 0 V under drive d (with C's DC-bias curve, if any).
     double time_to(const node_drive& d, double rise, double vth) const {
-        if (c.dc_bias) return d.tau * c.crossing_per_tau(0.0, d.v_end, vth);
-        return detail::rc::ramp_crossing_time(d.v_begin, d.v_end, rise, 0.0, vth, d.tau);
+        return c.ramp_crossing_time(d.v_begin, d.v_end, rise, 0.0, vth, d.tau);
     }
 
     [[noreturn]] void unreachable(const std::array<double, 8>& x, double vth, double v_end) const {
