@@ -34,7 +34,7 @@ const std::vector<block_spec>& blocks() {
     static const std::vector<block_spec> all{
         {"reset supervisor delay", "MCU reset held 20 ms .. 100 ms after the 3.3 V rail starts to rise (rise 0.5 ms .. 5 ms)",
          "rc_delay", {"supply=3.3V,5%", "threshold=0.55..0.75", "rise-time=0.5ms..5ms", "leakage=0..1uA"},
-         {"R=100ppm", "C=X7R"}, {"delay=20ms..100ms"}, "E24,4.7k..220k", "E6,100n..10u,10%"},
+         {"R=100ppm", "C=X7R,16V,0805"}, {"delay=20ms..100ms"}, "E24,4.7k..220k", "E6,100n..10u,10%"},
         {"fault-LED pulse stretcher", "one-shot: the fault LED stays on 250 ms \u00B1 20 % on a 4.5 V .. 5.5 V rail",
          "timer_monostable",
          {"supply=4.5V..5.5V", "threshold=2/3+-0.02", "saturation=0V..0.1V", "propagation-delay=100ns..300ns",
@@ -49,7 +49,7 @@ const std::vector<block_spec>& blocks() {
          "E12,1n..100n,2%"},
         {"button debounce", "front-panel button: both delays 10 ms .. 50 ms (contact bounce up to 5 ms)", "debounce",
          {"supply=3.3V,5%", "upper-threshold=0.55..0.7", "lower-threshold=0.3..0.45"},
-         {"R1=100ppm", "R2=100ppm", "C=X7R"}, {"press-delay=10ms..50ms", "release-delay=10ms..50ms"}, "E24,1k..470k",
+         {"R1=100ppm", "R2=100ppm", "C=X7R,16V,0603"}, {"press-delay=10ms..50ms", "release-delay=10ms..50ms"}, "E24,1k..470k",
          "E6,10n..10u,10%"},
     };
     return all;
