@@ -17,6 +17,7 @@
 #include <tauforge/analysis/sensitivity.hpp>
 #include <tauforge/analysis/test_limits.hpp>
 #include <tauforge/analysis/worst_case.hpp>
+#include <tauforge/capacitor_kinds.hpp>
 #include <tauforge/parts.hpp>
 #include <tauforge/series.hpp>
 #include <tauforge/synthesis.hpp>
@@ -296,7 +297,7 @@ N build_network(const network_def<N>& def, const request& rq, part_use use) {
         }
     }
     for (const auto& [k, v] : settings) find_setting(def, k).apply(n, v);
-    n.conditions = parse_temperature(rq.temperature, rq.temperature_ref);
+    n.conditions = parse_temperature(rq.temperature, rq.temperature_ref, rq.service_life);
     std::vector<bool> seen(def.parts.size(), false);
     for (const auto& [k, v] : parts) {
         const auto& b = find_part(def, k);
@@ -318,12 +319,17 @@ N build_network(const network_def<N>& def, const request& rq, part_use use) {
                 if constexpr (is_resistor) {
                     if (p.tcr) part.tcr = *p.tcr;
                 } else {
+                    // A technology brings its usual tolerance unless one is given.
+                    if (p.technology) part = tauforge::make_capacitor(*p.technology, part.nominal, p.tol);
                     if (p.tcr) part.tempco = *p.tcr;
-                    if (p.dielectric) part.tempco = *p.dielectric;
+                    if (p.dielectric) {
+                        part.tempco = *p.dielectric;
+                        part.aging_per_decade = tauforge::typical_aging_per_decade(*p.dielectric);
+                    }
                     if (p.rated_voltage) part.rated_voltage = tauforge::voltage::from_value(*p.rated_voltage);
                     if (p.size) part.dc_bias = tauforge::dc_bias_curve::class2_estimate(*part.rated_voltage, *p.size);
                 }
-                if (use == part_use::marked && (!p.value || !p.tol))
+                if (use == part_use::marked && (!p.value || (!p.tol && !p.technology)))
                     throw usage_error(what + ": " + (p.value ? "no tolerance" : "no value") + "; expected e.g. --part " +
                                       std::string(b.name) + "=" + (is_resistor ? "100k,1%" : "10n,10%") +
                                       " (a tolerance of 0% for an exact part)");

@@ -79,6 +79,9 @@ void add_network_options(CLI::App* sub, request& rq, raw_flags& raw) {
     sub->add_option("--temp", rq.temperature, "operating temperature range in degrees C, e.g. --temp=-20..70 (default 25)")
         ->type_name("A..B");
     sub->add_option("--temp-ref", rq.temperature_ref, "reference temperature of the marked values (default 25)")->type_name("T");
+    sub->add_option("--service-life", rq.service_life,
+                    "how long the parts age in service, in hours or years (5000h, 10y; default new parts)")
+        ->type_name("T");
     sub->add_flag("--example", rq.example, "fill in the catalogue's example parts, settings and spec where none are given");
 }
 

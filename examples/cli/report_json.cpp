@@ -89,6 +89,7 @@ json json_check(const check_result& c) {
     j["conditions"] = {{"temperature",
                         {{"min", c.conditions.t_min.value}, {"max", c.conditions.t_max.value}, {"ref", c.conditions.t_ref.value},
                          {"unit", "\u00B0C"}}},
+                       {"service hours", c.conditions.service_hours},
                        {"settings", settings}};
     json params = json::array();
     for (const auto& p : c.parameters)

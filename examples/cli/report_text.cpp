@@ -26,6 +26,11 @@ std::string temperature_text(const tauforge::operating_conditions& c, charset cs
     std::string s = c.t_min == c.t_max ? tauforge::format(c.t_min, o)
                                        : tauforge::format(c.t_min, o) + " .. " + tauforge::format(c.t_max, o);
     if (c.t_ref.value != 25.0) s += " (reference " + tauforge::format(c.t_ref, o) + ")";
+    if (c.service_hours > 0.0) {
+        char buf[64];
+        std::snprintf(buf, sizeof buf, "; parts aged %.6g h", c.service_hours);
+        s += buf;
+    }
     return s;
 }
 

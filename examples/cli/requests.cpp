@@ -1,5 +1,6 @@
 #include "requests.hpp"
 
+#include <tauforge/capacitor_kinds.hpp>
 #include <tauforge/error.hpp>
 #include <tauforge/notation.hpp>
 #include <tauforge/parts.hpp>
@@ -220,7 +221,8 @@ double parse_celsius(std::string_view text, std::string_view what) {
 
 }  // namespace
 
-tauforge::operating_conditions parse_temperature(std::string_view range, std::string_view ref) {
+tauforge::operating_conditions parse_temperature(std::string_view range, std::string_view ref,
+                                                 std::string_view service_life) {
     tauforge::operating_conditions c{};
     const std::string_view r = trim(range);
     if (!r.empty()) {
@@ -233,6 +235,18 @@ tauforge::operating_conditions parse_temperature(std::string_view range, std::st
         c.t_max = tauforge::celsius{hi};
     }
     if (!trim(ref).empty()) c.t_ref = tauforge::celsius{parse_celsius(ref, "temperature reference")};
+    if (const std::string_view life = trim(service_life); !life.empty()) {
+        // Hours, or years of 8766 h (365.25 days, common practice).
+        const std::string lw = lower(life);
+        const double per = lw.back() == 'y' ? 8766.0 : 1.0;
+        std::string_view number = lw.back() == 'y' || lw.back() == 'h' ? life.substr(0, life.size() - 1) : life;
+        number = trim(number);
+        double v = 0.0;
+        const auto [ptr, ec] = std::from_chars(number.data(), number.data() + number.size(), v);
+        if (number.empty() || ec != std::errc{} || ptr != number.data() + number.size() || !std::isfinite(v) || v < 0.0)
+            fail("service life", "\"" + std::string(life) + "\" is not a service life; expected hours or years such as 5000h or 10y");
+        c.service_hours = v * per;
+    }
     return c;
 }
 
@@ -248,22 +262,31 @@ part_text parse_part(std::string_view text, tauforge::part_kind kind, std::strin
                 fail(what, "\"" + std::string(text) + "\" gives the " + std::string(name) + " twice; expected one each of value, tolerance and temperature behaviour");
         };
         if (up == "C0G" || up == "NP0" || up == "NPO") {
-            once(p.tcr || p.dielectric, "temperature behaviour");
+            once(p.tcr || p.dielectric || p.technology, "temperature behaviour");
             if (kind == part_kind::resistor) fail(what, "\"" + std::string(field) + "\" is a capacitor dielectric; expected a TCR such as 100ppm for a resistor");
             p.tcr = c0g;
             continue;
         }
         const auto cls = std::find_if(classes.begin(), classes.end(), [&](const dielectric_class* d) { return d->name == up; });
         if (cls != classes.end()) {
-            once(p.tcr || p.dielectric, "temperature behaviour");
+            once(p.tcr || p.dielectric || p.technology, "temperature behaviour");
             if (kind == part_kind::resistor) fail(what, "\"" + std::string(field) + "\" is a capacitor dielectric; expected a TCR such as 100ppm for a resistor");
             p.dielectric = **cls;
             continue;
         }
         const std::string lw = lower(field);
+        static constexpr std::array<std::pair<std::string_view, const capacitor_kind*>, 4> technologies{
+            {{"pet", &pet_film}, {"pp", &pp_film}, {"al", &al_electrolytic}, {"ta", &tantalum_mno2}}};
+        const auto tech = std::find_if(technologies.begin(), technologies.end(), [&](const auto& t) { return t.first == lw; });
+        if (tech != technologies.end()) {
+            once(p.tcr || p.dielectric || p.technology, "temperature behaviour");
+            if (kind == part_kind::resistor) fail(what, "\"" + std::string(field) + "\" is a capacitor technology; expected a TCR such as 100ppm for a resistor");
+            p.technology = tech->second;
+            continue;
+        }
         const auto ppm = lw.find("ppm");
         if (ppm != std::string::npos && (lw.substr(ppm) == "ppm" || lw.substr(ppm) == "ppm/k")) {
-            once(p.tcr || p.dielectric, "temperature behaviour");
+            once(p.tcr || p.dielectric || p.technology, "temperature behaviour");
             std::string_view number = trim(field.substr(0, ppm));
             if (number.starts_with("+-")) number.remove_prefix(2);
             else if (number.starts_with("\u00B1")) number.remove_prefix(2);
@@ -585,7 +608,8 @@ request request_from_json(std::string_view text, std::string_view where) {
     if (doc.contains("temperature")) {
         const json& t = doc["temperature"];
         if (t.is_object()) {
-            rd.check_keys(t, "temperature", {"min", "max", "ref"});
+            rd.check_keys(t, "temperature", {"min", "max", "ref", "service life"});
+            if (t.contains("service life")) r.service_life = rd.text(t["service life"], "temperature.service life");
             if (t.contains("min") != t.contains("max")) rd.bad("temperature", t, "both min and max");
             if (t.contains("min")) r.temperature = rd.text(t["min"], "temperature.min") + ".." + rd.text(t["max"], "temperature.max");
             if (t.contains("ref")) r.temperature_ref = rd.text(t["ref"], "temperature.ref");

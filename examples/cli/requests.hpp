@@ -19,6 +19,7 @@
 
 #include "common.hpp"
 
+#include <tauforge/capacitor_kinds.hpp>
 #include <tauforge/series.hpp>
 
 #include <nlohmann/json_fwd.hpp>
@@ -51,6 +52,7 @@ struct request {
     std::vector<std::pair<std::string, std::string>> settings;  ///< setting -> text
     std::string temperature;                                    ///< "" = 25 °C
     std::string temperature_ref;                                ///< "" = 25 °C
+    std::string service_life;                                   ///< "" = new parts; "10y", "5000h"
     std::vector<std::string> spec;                              ///< window texts
     std::string resistors, capacitors;                          ///< value sets for every R / C slot
     std::vector<std::pair<std::string, std::string>> slots;     ///< slot -> value set
@@ -91,8 +93,9 @@ double parse_by_unit(std::string_view text, std::string_view unit, std::string_v
 /// A ranged value in the SI unit `unit`: nominal, low, high.
 interval parse_ranged_by_unit(std::string_view text, std::string_view unit, std::string_view what);
 
-/// The operating temperature range.
-tauforge::operating_conditions parse_temperature(std::string_view range, std::string_view ref);
+/// The operating temperature range, and the service life the parts age over.
+tauforge::operating_conditions parse_temperature(std::string_view range, std::string_view ref,
+                                                 std::string_view service_life = {});
 
 /// A parsed part text.
 struct part_text {
@@ -102,6 +105,7 @@ struct part_text {
     std::optional<tauforge::dielectric_class> dielectric;
     std::optional<double> rated_voltage;         ///< V, a field such as 16V (capacitors)
     std::optional<tauforge::ceramic_case> size;  ///< a case code such as 0603: a class 2 DC-bias estimate
+    const tauforge::capacitor_kind* technology = nullptr;  ///< PET, PP, AL, TA: film, electrolytic, tantalum
 };
 part_text parse_part(std::string_view text, tauforge::part_kind kind, std::string_view what);
 

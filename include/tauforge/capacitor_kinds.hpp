@@ -35,6 +35,11 @@ struct capacitor_kind {
     std::optional<leakage_rule> leakage_limit{};        ///< leakage of the form max(k C V, floor)
 };
 
+/// Typical ageing per decade of hours of a class 2 dielectric (common practice:
+/// X7R/X5R about 1-4 %, Y5V 6-10 %): 7 % where the temperature envelope falls by
+/// more than half (Y5V, Z5U), 2.5 % otherwise.
+constexpr double typical_aging_per_decade(const dielectric_class& d) { return d.minus > 0.5 ? 0.07 : 0.025; }
+
 /// Polyester (PET) film: about +200 to +600 ppm/K, rated -55 to +125 °C (from memory).
 inline constexpr ppm_band pet_film_tc{200.0, 600.0, celsius{-55.0}, celsius{125.0}, "PET film"};
 /// Polypropylene (PP) film: about -300 to -100 ppm/K, rated -55 to +105 °C (from memory).
@@ -53,14 +58,14 @@ inline const capacitor_kind c0g_ceramic{"C0G ceramic", capacitor_technology::cer
 /// at +/-10 % (also 5 %, 20 %), ageing 2.5 % per decade of hours (common practice:
 /// 1-4 %); loses capacitance under DC bias (set `dc_bias`).
 inline const capacitor_kind x7r_ceramic{"X7R ceramic", capacitor_technology::ceramic_class2, x7r,
-                                        tolerance::symmetric(0.10), {0.05, 0.10, 0.20}, 0.025};
+                                        tolerance::symmetric(0.10), {0.05, 0.10, 0.20}, typical_aging_per_decade(x7r)};
 /// X5R class 2 ceramic: +/-15 % over -55 to +85 °C, otherwise as X7R.
 inline const capacitor_kind x5r_ceramic{"X5R ceramic", capacitor_technology::ceramic_class2, x5r,
-                                        tolerance::symmetric(0.10), {0.05, 0.10, 0.20}, 0.025};
+                                        tolerance::symmetric(0.10), {0.05, 0.10, 0.20}, typical_aging_per_decade(x5r)};
 /// Y5V class 2 ceramic: +22/-82 % over -30 to +85 °C (EIA-198 (from memory)), bought
 /// at +80/-20 % (Z), ageing 7 % per decade of hours (common practice: 6-10 %).
 inline const capacitor_kind y5v_ceramic{"Y5V ceramic", capacitor_technology::ceramic_class2, y5v,
-                                        tolerance{0.20, 0.80}, {0.20, 0.0, 0.0}, 0.07};
+                                        tolerance{0.20, 0.80}, {0.20, 0.0, 0.0}, typical_aging_per_decade(y5v)};
 /// Polyester (PET) film: bought at +/-10 % (also 5 %, 20 %) (common practice).
 inline const capacitor_kind pet_film{"PET film", capacitor_technology::film, pet_film_tc,
                                      tolerance::symmetric(0.10), {0.05, 0.10, 0.20}};
