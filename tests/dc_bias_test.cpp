@@ -9,6 +9,7 @@
 #include "approx.hpp"
 #include "ode_reference.hpp"
 
+#include <tauforge/analysis/monte_carlo.hpp>
 #include <tauforge/analysis/worst_case.hpp>
 #include <tauforge/dc_bias.hpp>
 #include <tauforge/networks/debounce.hpp>
@@ -355,4 +356,25 @@ TEST_CASE("a power-on ramp into a DC-biased capacitor matches Odeint") {
         CHECK_FALSE(corners_are_bounds(d));
         CHECK_REL(metric_bounds(d)[0].nominal, t_ref, 1e-8);
     }
+}
+
+TEST_CASE("Monte Carlo through a DC-bias curve: every sample scales by the hand-calculated factor") {
+    // Supply and threshold fixed, so the curve's factor (0.9017066, hand calculation above)
+    // is the same at every sample: the same seed gives each sample's width times it.
+    timer_monostable m;
+    m.r = {.nominal = 100_kohm, .tol = tolerance::symmetric(0.01)};
+    m.c = {.nominal = 10_nF, .tol = tolerance::symmetric(0.10)};
+    monte_carlo_options<timer_monostable> opt;
+    opt.samples = 20'000;
+    opt.seed = 11;
+    const auto plain = monte_carlo(m, opt);
+    m.c.dc_bias = straight_curve();
+    const auto biased = monte_carlo(m, opt);
+    const double factor = (0.75 * std::log(3.0) + 1.0 / 6.0) / std::log(3.0);
+    const auto& a = plain[timer_monostable::pulse_width];
+    const auto& b = biased[timer_monostable::pulse_width];
+    CHECK_REL(b.mean, a.mean * factor, 1e-12);
+    CHECK_REL(b.stddev, a.stddev * factor, 1e-9);
+    CHECK_REL(b.min, a.min * factor, 1e-12);
+    CHECK_REL(b.max, a.max * factor, 1e-12);
 }
