@@ -81,3 +81,25 @@ TEST_CASE("electrolytic leakage max(0.01 C V, 3 µA) loads an RC delay") {
     CHECK_REL(b.high, 100e3 * 120e-6 * std::log(4.5 / (4.5 - 10.0 / 3.0)), 1e-12);
     CHECK_REL(b.low, 100e3 * 80e-6 * std::log(3.0), 1e-12);
 }
+
+TEST_CASE("over the rating: an error, or a finding when the part allows it") {
+    rc_delay d;
+    d.r = {.nominal = 10_kohm};
+    d.c = make_capacitor(x7r_ceramic, 1_uF);
+    d.c.rated_voltage = 4_V;
+    CHECK_THROWS_WITH_AS(d.ranges(),
+                         "rc_delay::ranges: c.rated_voltage = 4 V is invalid; expected at least the 5 V that "
+                         "supply.high can put across c",
+                         tauforge::domain_error);
+    d.c.allow_over_rating = true;
+    CHECK_NOTHROW(d.ranges());
+    const auto f = rating_findings(d.c, d.supply.high);
+    REQUIRE(f.size() == 1);
+    CHECK(f[0].level == severity::violation);
+    CHECK(f[0].rule == "over_rating");
+    CHECK(f[0].message == "C sees up to 5 V, above its rated 4 V; expected a part rated for at least 5 V");
+    d.c.rated_voltage = 6.3_V;
+    CHECK(rating_findings(d.c, d.supply.high).empty());
+    d.c.rated_voltage.reset();
+    CHECK(rating_findings(d.c, d.supply.high)[0].rule == "no_rating");
+}

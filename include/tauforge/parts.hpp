@@ -29,6 +29,7 @@
 #include "tauforge/dc_bias.hpp"
 #include "tauforge/detail/validate.hpp"
 #include "tauforge/error.hpp"
+#include "tauforge/findings.hpp"
 #include "tauforge/notation.hpp"
 #include "tauforge/units.hpp"
 
@@ -342,6 +343,7 @@ struct capacitor {
     double aging_reference_hours = 1000.0;   ///< hours after the last de-ageing at which the marked value holds
     std::optional<wear_out> end_of_life{};   ///< electrolytic wear-out over the service time
     std::optional<leakage_rule> leakage_limit{};  ///< leakage from k C V (electrolytics), at the applied voltage
+    bool allow_over_rating = false;  ///< a voltage above rated_voltage is a finding (rating_findings), not an error
 
     /// Its value range in farads at the operating conditions:
     /// C (1 + [-minus, plus]) (temperature factor) (1 + [-aging, aging]). A ppm
@@ -436,9 +438,10 @@ struct capacitor {
     }
 
     /// For network `fn`: `domain_error` when the highest voltage the network can put
-    /// across the part, `v_max` (from `what`, e.g. "supply.high"), exceeds `rated_voltage`.
+    /// across the part, `v_max` (from `what`, e.g. "supply.high"), exceeds `rated_voltage`,
+    /// unless `allow_over_rating` (then `rating_findings` reports it).
     void check_rating(std::string_view fn, std::string_view what, voltage v_max, std::string_view part = "c") const {
-        if (rated_voltage && v_max > *rated_voltage)
+        if (rated_voltage && v_max > *rated_voltage && !allow_over_rating)
             detail::parts_fail_domain(fn, std::string(part) + ".rated_voltage", detail::value_text(*rated_voltage),
                                       "at least the " + detail::value_text(v_max) + " that " + std::string(what) +
                                           " can put across " + std::string(part));
@@ -499,5 +502,23 @@ struct part_model {
     const resistor* as_resistor() const { return std::get_if<resistor>(&part); }
     const capacitor* as_capacitor() const { return std::get_if<capacitor>(&part); }
 };
+
+/// The voltage rating as a finding: a violation "over_rating" when `applied` (the
+/// highest voltage across the part, e.g. the supply's high end) exceeds
+/// `c.rated_voltage`; a warning "no_rating" when the part has none. For parts whose
+/// `allow_over_rating` lets networks accept them.
+inline std::vector<finding> rating_findings(const capacitor& c, voltage applied, std::string_view part = "C") {
+    std::vector<finding> out;
+    const std::string name(part);
+    if (!c.rated_voltage)
+        out.push_back({severity::warning, "no_rating", name + " has no rated voltage; " + detail::value_text(applied) +
+                                                           " is applied across it"});
+    else if (applied > *c.rated_voltage)
+        out.push_back({severity::violation, "over_rating",
+                       name + " sees up to " + detail::value_text(applied) + ", above its rated " +
+                           detail::value_text(*c.rated_voltage) + "; expected a part rated for at least " +
+                           detail::value_text(applied)});
+    return out;
+}
 
 }  // namespace tauforge
