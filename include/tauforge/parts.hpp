@@ -340,7 +340,7 @@ struct capacitor {
     std::optional<voltage> rated_voltage{};  ///< DC rating; networks check the highest voltage they apply against it
     std::optional<dc_bias_curve> dc_bias{};  ///< capacitance against DC voltage (class 2 ceramics)
     double aging_per_decade = 0.0;           ///< class 2 ageing: fraction lost per decade of hours in service
-    double aging_reference_hours = 1000.0;   ///< hours after the last de-ageing at which the marked value holds
+    double aging_reference_hours = 1000.0;   ///< hours after the last de-ageing at which the marked value holds (1000 h: from memory)
     std::optional<wear_out> end_of_life{};   ///< electrolytic wear-out over the service time
     std::optional<leakage_rule> leakage_limit{};  ///< leakage from k C V (electrolytics), at the applied voltage
     bool allow_over_rating = false;  ///< a voltage above rated_voltage is a finding (rating_findings), not an error
@@ -372,51 +372,6 @@ struct capacitor {
                                              ? detail::tcr_factor(fn, "tempco", std::get<ppm_band>(tempco), c)
                                              : detail::class_factor(fn, std::get<dielectric_class>(tempco), c);
         return detail::fold(nominal.value(), tol, temp * service_factor(c), aging);
-    }
-
-    /// The factor that ageing over `c.service_hours` applies: class 2 ceramics lose
-    /// `aging_per_decade` per decade of hours past `aging_reference_hours`
-    /// (1 - a log10(S / S_ref), common practice: X7R/X5R about 1-4 % per decade,
-    /// Y5V 6-10 %); electrolytics lose up to `end_of_life->loss` over their life (see
-    /// `wear_out`). Only losses: the value above the marking soon after a de-ageing
-    /// is not credited. {1, 1, 1} for new parts.
-    detail::factor_span service_factor(const operating_conditions& c) const {
-        constexpr std::string_view fn = "capacitor::range";
-        if (!(std::isfinite(aging_per_decade) && aging_per_decade >= 0.0 && aging_per_decade < 1.0))
-            detail::parts_fail(fn, "aging_per_decade", format_percent(aging_per_decade, 6),
-                               "a fraction per decade of hours from 0 up to, not including, 100 %");
-        if (!(std::isfinite(aging_reference_hours) && aging_reference_hours > 0.0))
-            detail::parts_fail(fn, "aging_reference_hours", detail::quoted_value(aging_reference_hours) + " h",
-                               "a positive, finite number of hours");
-        double kept = 1.0;
-        if (aging_per_decade > 0.0 && c.service_hours > aging_reference_hours) {
-            kept -= aging_per_decade * std::log10(c.service_hours / aging_reference_hours);
-            if (!(kept > 0.0))
-                detail::parts_fail_domain(fn, "service_hours", detail::quoted_value(c.service_hours) + " h",
-                                          "a service time over which " + format_percent(aging_per_decade, 6) +
-                                              " per decade of hours leaves some capacitance");
-        }
-        if (end_of_life) {
-            const wear_out& w = *end_of_life;
-            if (!(std::isfinite(w.loss) && w.loss >= 0.0 && w.loss < 1.0))
-                detail::parts_fail(fn, "end_of_life.loss", format_percent(w.loss, 6),
-                                   "a fraction from 0 up to, not including, 100 %");
-            if (!(std::isfinite(w.rated_hours) && w.rated_hours > 0.0))
-                detail::parts_fail(fn, "end_of_life.rated_hours", detail::quoted_value(w.rated_hours) + " h",
-                                   "a positive, finite number of hours");
-            if (!std::isfinite(w.rated_temperature.value))
-                detail::parts_fail(fn, "end_of_life.rated_temperature", format(w.rated_temperature, {.digits = 6}),
-                                   "a finite temperature");
-            const double life = w.rated_hours * std::exp2((w.rated_temperature.value - c.t_max.value) / 10.0);
-            if (c.service_hours > life)
-                detail::parts_fail_domain(
-                    fn, "service_hours", detail::quoted_value(c.service_hours) + " h",
-                    "at most the part's life at t_max = " + format(c.t_max, {.digits = 6}) + ", " +
-                        detail::quoted_value(life) + " h (" + detail::quoted_value(w.rated_hours) + " h at " +
-                        format(w.rated_temperature, {.digits = 6}) + ", doubling per 10 K below)");
-            kept *= 1.0 - w.loss * c.service_hours / life;
-        }
-        return {1.0, kept, 1.0};
     }
 
     /// The crossing time over R C for a charge from v_start to v_threshold towards
@@ -489,6 +444,51 @@ struct capacitor {
     }
     /// Memberwise equality.
     friend bool operator==(const capacitor&, const capacitor&) = default;
+private:
+    /// The factor that ageing over `c.service_hours` applies: class 2 ceramics lose
+    /// `aging_per_decade` per decade of hours past `aging_reference_hours`
+    /// (1 - a log10(S / S_ref), common practice: X7R/X5R about 1-4 % per decade,
+    /// Y5V 6-10 %); electrolytics lose up to `end_of_life->loss` over their life (see
+    /// `wear_out`). Only losses: the value above the marking soon after a de-ageing
+    /// is not credited. {1, 1, 1} for new parts.
+    detail::factor_span service_factor(const operating_conditions& c) const {
+        constexpr std::string_view fn = "capacitor::range";
+        if (!(std::isfinite(aging_per_decade) && aging_per_decade >= 0.0 && aging_per_decade < 1.0))
+            detail::parts_fail(fn, "aging_per_decade", format_percent(aging_per_decade, 6),
+                               "a fraction per decade of hours from 0 up to, not including, 100 %");
+        if (!(std::isfinite(aging_reference_hours) && aging_reference_hours > 0.0))
+            detail::parts_fail(fn, "aging_reference_hours", detail::quoted_value(aging_reference_hours) + " h",
+                               "a positive, finite number of hours");
+        double kept = 1.0;
+        if (aging_per_decade > 0.0 && c.service_hours > aging_reference_hours) {
+            kept -= aging_per_decade * std::log10(c.service_hours / aging_reference_hours);
+            if (!(kept > 0.0))
+                detail::parts_fail_domain(fn, "service_hours", detail::quoted_value(c.service_hours) + " h",
+                                          "a service time over which " + format_percent(aging_per_decade, 6) +
+                                              " per decade of hours leaves some capacitance");
+        }
+        if (end_of_life) {
+            const wear_out& w = *end_of_life;
+            if (!(std::isfinite(w.loss) && w.loss >= 0.0 && w.loss < 1.0))
+                detail::parts_fail(fn, "end_of_life.loss", format_percent(w.loss, 6),
+                                   "a fraction from 0 up to, not including, 100 %");
+            if (!(std::isfinite(w.rated_hours) && w.rated_hours > 0.0))
+                detail::parts_fail(fn, "end_of_life.rated_hours", detail::quoted_value(w.rated_hours) + " h",
+                                   "a positive, finite number of hours");
+            if (!std::isfinite(w.rated_temperature.value))
+                detail::parts_fail(fn, "end_of_life.rated_temperature", format(w.rated_temperature, {.digits = 6}),
+                                   "a finite temperature");
+            const double life = w.rated_hours * std::exp2((w.rated_temperature.value - c.t_max.value) / 10.0);
+            if (c.service_hours > life)
+                detail::parts_fail_domain(
+                    fn, "service_hours", detail::quoted_value(c.service_hours) + " h",
+                    "at most the part's life at t_max = " + format(c.t_max, {.digits = 6}) + ", " +
+                        detail::quoted_value(life) + " h (" + detail::quoted_value(w.rated_hours) + " h at " +
+                        format(w.rated_temperature, {.digits = 6}) + ", doubling per 10 K below)");
+            kept *= 1.0 - w.loss * c.service_hours / life;
+        }
+        return {1.0, kept, 1.0};
+    }
 };
 
 /// A kind of part a synthesis slot may be bought as: a name for reports and the
