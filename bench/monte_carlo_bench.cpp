@@ -44,6 +44,13 @@ struct one_shot {
     std::array<double, 1> evaluate(const std::array<double, 3>& x) const {
         return {detail::rc::crossing_time(0.0, 1.0, x[2], x[0] * x[1])};
     }
+    // The same on a block of samples (what monte_carlo uses when a network has it).
+    void evaluate_block(std::size_t count, const std::array<const double*, 3>& x,
+                        const std::array<double*, 1>& out) const {
+        double* t = out[0];
+        for (std::size_t k = 0; k < count; ++k) t[k] = x[0][k] * x[1][k];  // tau, then the crossing in place
+        detail::rc::crossing_times(count, 0.0, 1.0, x[2], static_cast<const double*>(t), t);
+    }
 };
 
 const one_shot net{{.nominal = 100_kohm, .tol = tolerance::symmetric(0.01)},

@@ -84,6 +84,20 @@ inline constexpr std::size_t parameter_count_v = N::parameters.size();
 template <TimingNetwork N>
 inline constexpr std::size_t metric_count_v = N::metrics.size();
 
+/// `BlockEvaluableNetwork<N>`: a TimingNetwork that can also evaluate a block of
+/// points at once, parameters as columns: `n.evaluate_block(count, x, out)` with
+/// x[j] pointing to `count` values of parameter j and out[m] to `count` slots
+/// for metric m. It must give bit-for-bit what `evaluate` gives at every point
+/// and throw what `evaluate` throws at the first point where it would. Optional:
+/// Monte Carlo uses it when present and `evaluate` point by point otherwise.
+template <class N>
+concept BlockEvaluableNetwork =
+    TimingNetwork<N> && requires(const N& n, std::size_t count,
+                                 const std::array<const double*, N::parameters.size()>& x,
+                                 const std::array<double*, N::metrics.size()>& out) {
+        { n.evaluate_block(count, x, out) } -> std::same_as<void>;
+    };
+
 /// `DesignableNetwork<N>`: a TimingNetwork some of whose parts synthesis can
 /// choose. `with_parts` returns a copy with those parts' nominal values and
 /// tolerances replaced; everything else (temperature behaviour, supply,
