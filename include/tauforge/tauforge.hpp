@@ -10,6 +10,7 @@
 #include "tauforge/analysis/verify.hpp"
 #include "tauforge/analysis/worst_case.hpp"
 #include "tauforge/concepts.hpp"
+#include "tauforge/core.hpp"
 #include "tauforge/error.hpp"
 #include "tauforge/networks/adc_settling.hpp"
 #include "tauforge/networks/chain.hpp"
