@@ -79,6 +79,18 @@ constexpr bool corners_are_bounds(const N& n) {
         return true;
 }
 
+/// Whether n itself declares, through a member `corners_are_bounds()` that returns
+/// true, that every metric is monotone in every parameter (DEVELOPERS.md, "Adding a
+/// network"); false for a network without the member. `worst_case` then trusts the
+/// corners and skips its monotonicity scan.
+template <class N>
+constexpr bool declares_corners_are_bounds(const N& n) {
+    if constexpr (requires { { n.corners_are_bounds() } -> std::convertible_to<bool>; })
+        return n.corners_are_bounds();
+    else
+        return false;
+}
+
 template <TimingNetwork N>
 inline constexpr std::size_t parameter_count_v = N::parameters.size();
 template <TimingNetwork N>

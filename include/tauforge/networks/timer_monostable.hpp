@@ -153,14 +153,7 @@ struct timer_monostable {
         const double rr = x[p_r], cc = x[p_c], vcc = x[p_supply], vsat = x[p_sat], ron = x[p_ron], ib = x[p_bias];
         const double vth = control_voltage ? x[p_control] : x[p_ratio] * vcc;
         const double v_final = vcc - ib * rr;
-        if (!(v_final > vth))
-            throw domain_error(
-                "timer_monostable::evaluate: threshold_bias = " + detail::value_text(current::from_value(ib)) +
-                " is invalid; expected below (supply - threshold) / R = (" +
-                detail::value_text(voltage::from_value(vcc)) + " - " + detail::value_text(voltage::from_value(vth)) +
-                ") / " + detail::value_text(resistance::from_value(rr)) + " = " +
-                detail::value_text(current::from_value((vcc - vth) / rr)) +
-                ", or the capacitor never reaches the threshold");
+        if (!(v_final > vth)) bias_too_large(ib, vcc, vth, rr);
         const double v_hold = held_level(rr, vcc, vsat, ron, ib);
         const double width = detail::rc::crossing_time(v_hold, v_final, vth, rr * cc) + x[p_delay];
         const double recovery =
@@ -170,6 +163,18 @@ struct timer_monostable {
     }
 
     /// The level the switch holds the node at: V_sat + R_on (V_cc - V_sat - I_b R) / (R + R_on).
+    /// The error of evaluate, out of its line so that evaluate stays small enough to inline.
+    [[noreturn]] static void bias_too_large(double ib, double vcc, double vth, double rr) {
+        throw domain_error("timer_monostable::evaluate: threshold_bias = " +
+                           detail::value_text(current::from_value(ib)) +
+                           " is invalid; expected below (supply - threshold) / R = (" +
+                           detail::value_text(voltage::from_value(vcc)) + " - " +
+                           detail::value_text(voltage::from_value(vth)) + ") / " +
+                           detail::value_text(resistance::from_value(rr)) + " = " +
+                           detail::value_text(current::from_value((vcc - vth) / rr)) +
+                           ", or the capacitor never reaches the threshold");
+    }
+
     static double held_level(double rr, double vcc, double vsat, double ron, double ib) {
         return ron > 0.0 ? vsat + ron * (vcc - vsat - ib * rr) / (rr + ron) : vsat;
     }
