@@ -32,6 +32,8 @@
 
 #include <benchmark/benchmark.h>
 
+#include "bench_common.hpp"
+
 #include <algorithm>
 #include <cmath>
 #include <cstdio>
@@ -169,20 +171,7 @@ void run(benchmark::State& state, bool uniform, bool full, unsigned threads) {
 
 // ---- the oscillator: the library's timer_astable, 7 free parameters -----------------
 
-timer_astable make_oscillator() {
-    timer_astable n;
-    n.ra = {.nominal = 12.4_kohm, .tol = tolerance::symmetric(0.01), .tcr = ppm_band::symmetric(100)};
-    n.rb = {.nominal = 18.7_kohm, .tol = tolerance::symmetric(0.01), .tcr = ppm_band::symmetric(100)};
-    n.c = {.nominal = 12_nF, .tol = tolerance::symmetric(0.02), .tempco = c0g};
-    n.supply = ranged<voltage>::between(4.5_V, 5.5_V);
-    n.lower_threshold = ranged<double>::plus_minus(1.0 / 3.0, 0.005);
-    n.upper_threshold = ranged<double>::plus_minus(2.0 / 3.0, 0.005);
-    n.discharge_saturation = ranged<voltage>::between(0_V, 0.1_V);
-    n.conditions = {.t_min = celsius{-20.0}, .t_max = celsius{70.0}};
-    return n;
-}
-
-const timer_astable oscillator = make_oscillator();
+const timer_astable oscillator = tauforge_bench::oscillator();
 
 monte_carlo_options<timer_astable> oscillator_options() {
     monte_carlo_options<timer_astable> o;

@@ -10,19 +10,20 @@
 //   worst_case_10/grid3            a 3^10 grid (59,049 evaluations)
 //   worst_case_10/worst_case       worst_case (1,024 corners + the monotonicity scan)
 //   worst_case_10/metric_bounds    metric_bounds (1,024 corners)
-//   one_shot_worst_case/baseline   the full worst_case search (every line of the
-//                                  monotonicity scan; detail::worst_case_search, full)
-//                                  on a timer_monostable with 6 free parameters
-//   one_shot_worst_case/worst_case worst_case: coinciding scan lines scanned once
-//   oscillator_worst_case/...      the same on a timer_astable (7 free parameters),
-//                                  which declares itself monotone: no scan at all
+//   oscillator_worst_case/baseline the worst_case search without its shortcuts (every
+//                                  line of the monotonicity scan) on a timer_astable
+//                                  with 7 free parameters (bench_common.hpp)
+//   oscillator_worst_case/worst_case worst_case: the oscillator declares itself
+//                                  monotone, so no scan at all
+// (units_bench has the same pair for the one-shot.)
 // Before timing, worst_case and the 4^10 grid must agree on the bounds (the
-// grid contains the corners and the metric is monotone), and the full search and
-// worst_case must agree on every bound and corner bit for bit.
+// grid contains the corners and the metric is monotone), and the search without
+// shortcuts and worst_case must agree on every bound and corner bit for bit.
 #include <tauforge/analysis/function_network.hpp>
 #include <tauforge/analysis/worst_case.hpp>
 #include <tauforge/networks/timer_astable.hpp>
-#include <tauforge/networks/timer_monostable.hpp>
+
+#include "bench_common.hpp"
 
 #include <benchmark/benchmark.h>
 
@@ -30,8 +31,6 @@
 #include <cmath>
 #include <cstdio>
 #include <cstdlib>
-#include <cstring>
-#include <utility>
 
 using namespace tauforge;
 
@@ -145,66 +144,11 @@ void worst_case_10(benchmark::State& s, int variant) {
     }
 }
 
-// The networks of units_bench's one-shot and monte_carlo_bench's oscillator.
-timer_monostable make_one_shot() {
-    using namespace tauforge::literals;
-    timer_monostable m;
-    m.r = {.nominal = 100_kohm, .tol = tolerance::symmetric(0.01), .tcr = ppm_band::symmetric(100)};
-    m.c = {.nominal = 10_nF, .tol = tolerance::symmetric(0.05), .tempco = c0g};
-    m.supply = ranged<voltage>::between(4.5_V, 5.5_V);
-    m.upper_threshold = ranged<double>::plus_minus(2.0 / 3.0, 0.02);
-    m.discharge_resistance = ranged<resistance>::between(5_ohm, 15_ohm);
-    m.propagation_delay = ranged<duration>::between(100_ns, 300_ns);
-    m.conditions = {.t_min = celsius{-20.0}, .t_max = celsius{70.0}};
-    return m;
-}
-
-timer_astable make_oscillator() {
-    using namespace tauforge::literals;
-    timer_astable n;
-    n.ra = {.nominal = 12.4_kohm, .tol = tolerance::symmetric(0.01), .tcr = ppm_band::symmetric(100)};
-    n.rb = {.nominal = 18.7_kohm, .tol = tolerance::symmetric(0.01), .tcr = ppm_band::symmetric(100)};
-    n.c = {.nominal = 12_nF, .tol = tolerance::symmetric(0.02), .tempco = c0g};
-    n.supply = ranged<voltage>::between(4.5_V, 5.5_V);
-    n.lower_threshold = ranged<double>::plus_minus(1.0 / 3.0, 0.005);
-    n.upper_threshold = ranged<double>::plus_minus(2.0 / 3.0, 0.005);
-    n.discharge_saturation = ranged<voltage>::between(0_V, 0.1_V);
-    n.conditions = {.t_min = celsius{-20.0}, .t_max = celsius{70.0}};
-    return n;
-}
-
-template <class N>
-void full_or_shortcut(benchmark::State& state, const N& n, bool full) {
-    static const bool checked = [&] {
-        const auto a = detail::worst_case_search(n, {}, true), b = worst_case(n);
-        for (std::size_t m = 0; m < a.metrics.size(); ++m)
-            for (const auto& [x, y] : {std::pair{a[m].min, b[m].min}, std::pair{a[m].max, b[m].max}})
-                if (std::memcmp(&x.value, &y.value, sizeof x.value) != 0 || x.parameters != y.parameters ||
-                    x.positions != y.positions) {
-                    std::fprintf(stderr, "worst_case_bench: full search and worst_case disagree; nothing is timed\n");
-                    std::abort();
-                }
-        return true;
-    }();
-    benchmark::DoNotOptimize(checked);
-    std::size_t evals = 0;
-    for (auto _ : state) {
-        const auto r = full ? detail::worst_case_search(n, {}, true) : worst_case(n);
-        evals = r.evaluations;
-        benchmark::DoNotOptimize(r.metrics[0].max.value);
-    }
-    state.counters["evaluations"] = static_cast<double>(evals);
-}
-
-const timer_monostable one_shot = make_one_shot();
-const timer_astable oscillator = make_oscillator();
-void one_shot_worst_case(benchmark::State& s, bool full) { full_or_shortcut(s, one_shot, full); }
-void oscillator_worst_case(benchmark::State& s, bool full) { full_or_shortcut(s, oscillator, full); }
+const timer_astable oscillator = tauforge_bench::oscillator();
+void oscillator_worst_case(benchmark::State& s, bool full) { tauforge_bench::worst_case_or_full_search(s, oscillator, full); }
 
 }  // namespace
 
-BENCHMARK_CAPTURE(one_shot_worst_case, baseline, true)->Unit(benchmark::kMicrosecond);
-BENCHMARK_CAPTURE(one_shot_worst_case, worst_case, false)->Unit(benchmark::kMicrosecond);
 BENCHMARK_CAPTURE(oscillator_worst_case, baseline, true)->Unit(benchmark::kMicrosecond);
 BENCHMARK_CAPTURE(oscillator_worst_case, worst_case, false)->Unit(benchmark::kMicrosecond);
 BENCHMARK_CAPTURE(worst_case_growth, baseline, 4);
