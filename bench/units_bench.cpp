@@ -17,7 +17,12 @@
 //   one_shot_ranges/baseline       the one-shot's intervals from raw doubles
 //   one_shot_ranges/ranges         timer_monostable::ranges(): what metric_bounds(net)
 //                                  spends before its first corner
-// Target: variant time <= 1.05 x baseline at -O2 (run.sh ratio >= 0.95).
+//   one_shot_worst_case/baseline   the worst_case search without its shortcuts (every
+//                                  line of the monotonicity scan)
+//   one_shot_worst_case/worst_case worst_case(timer_monostable): coinciding scan lines
+//                                  scanned once
+// Target: variant time <= 1.05 x baseline at -O2 (run.sh ratio >= 0.95), except
+// for the worst_case pair, which measures what its shortcuts save.
 //
 // The kernels are [[gnu::noinline]] so that each variant's loop can be read
 // on its own: objdump -d --no-show-raw-insn -C units_bench | less, search for
@@ -28,6 +33,8 @@
 #include <tauforge/units.hpp>
 
 #include <benchmark/benchmark.h>
+
+#include "bench_common.hpp"
 
 #include <algorithm>
 #include <array>
@@ -341,8 +348,14 @@ void bm_ranges_typed(benchmark::State& state) {
     }
 }
 
+void bm_worst_case(benchmark::State& state, bool full) {
+    tauforge_bench::worst_case_or_full_search(state, one_shot, full);
+}
+
 }  // namespace
 
+BENCHMARK_CAPTURE(bm_worst_case, full, true)->Name("one_shot_worst_case/baseline")->Unit(benchmark::kMicrosecond);
+BENCHMARK_CAPTURE(bm_worst_case, shortcuts, false)->Name("one_shot_worst_case/worst_case")->Unit(benchmark::kMicrosecond);
 BENCHMARK(bm_crossings<raw_crossings>)->Name("crossing_time_1024/baseline")->Unit(benchmark::kMicrosecond);
 BENCHMARK(bm_crossings<typed_crossings>)->Name("crossing_time_1024/typed")->Unit(benchmark::kMicrosecond);
 BENCHMARK(bm_bounds_raw)->Name("one_shot_bounds/baseline")->Unit(benchmark::kMicrosecond);

@@ -10,10 +10,20 @@
 //   worst_case_10/grid3            a 3^10 grid (59,049 evaluations)
 //   worst_case_10/worst_case       worst_case (1,024 corners + the monotonicity scan)
 //   worst_case_10/metric_bounds    metric_bounds (1,024 corners)
+//   oscillator_worst_case/baseline the worst_case search without its shortcuts (every
+//                                  line of the monotonicity scan) on a timer_astable
+//                                  with 7 free parameters (bench_common.hpp)
+//   oscillator_worst_case/worst_case worst_case: the oscillator declares itself
+//                                  monotone, so no scan at all
+// (units_bench has the same pair for the one-shot.)
 // Before timing, worst_case and the 4^10 grid must agree on the bounds (the
-// grid contains the corners and the metric is monotone).
+// grid contains the corners and the metric is monotone), and the search without
+// shortcuts and worst_case must agree on every bound and corner bit for bit.
 #include <tauforge/analysis/function_network.hpp>
 #include <tauforge/analysis/worst_case.hpp>
+#include <tauforge/networks/timer_astable.hpp>
+
+#include "bench_common.hpp"
 
 #include <benchmark/benchmark.h>
 
@@ -134,8 +144,13 @@ void worst_case_10(benchmark::State& s, int variant) {
     }
 }
 
+const timer_astable oscillator = tauforge_bench::oscillator();
+void oscillator_worst_case(benchmark::State& s, bool full) { tauforge_bench::worst_case_or_full_search(s, oscillator, full); }
+
 }  // namespace
 
+BENCHMARK_CAPTURE(oscillator_worst_case, baseline, true)->Unit(benchmark::kMicrosecond);
+BENCHMARK_CAPTURE(oscillator_worst_case, worst_case, false)->Unit(benchmark::kMicrosecond);
 BENCHMARK_CAPTURE(worst_case_growth, baseline, 4);
 BENCHMARK_CAPTURE(worst_case_growth, k8, 8);
 BENCHMARK_CAPTURE(worst_case_growth, k12, 12);

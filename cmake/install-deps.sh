@@ -6,7 +6,7 @@
 #   cmake/install-deps.sh --fuzz   also clang and its runtime (libFuzzer)
 set -eu
 
-packages="g++ cmake libboost-dev doctest-dev libbenchmark-dev nlohmann-json3-dev libcli11-dev libexpat1-dev python3"
+packages="g++ cmake libboost-dev doctest-dev libbenchmark-dev nlohmann-json3-dev libcli11-dev libexpat1-dev python3 time"
 if [ "${1:-}" = "--fuzz" ]; then
   packages="$packages clang libclang-rt-14-dev"
 fi

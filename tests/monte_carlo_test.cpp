@@ -6,6 +6,7 @@
 #include <tauforge/analysis/function_network.hpp>
 #include <tauforge/analysis/monte_carlo.hpp>
 #include <tauforge/detail/random_streams.hpp>
+#include <tauforge/networks/timer_astable.hpp>
 #include <tauforge/parts.hpp>
 #include <tauforge/rc.hpp>
 
@@ -14,6 +15,7 @@
 
 #include <doctest/doctest.h>
 
+#include <algorithm>
 #include <cmath>
 #include <cstring>
 
@@ -32,7 +34,24 @@ struct one_shot {
     std::array<double, 1> evaluate(const std::array<double, 3>& x) const {
         return {detail::rc::crossing_time(0.0, 1.0, x[2], x[0] * x[1])};
     }
+    // The same on a block (Monte Carlo's block path), through rc.hpp's block kernel.
+    void evaluate_block(std::size_t count, const std::array<const double*, 3>& x,
+                        const std::array<double*, 1>& out) const {
+        for (std::size_t k = 0; k < count; ++k) out[0][k] = x[0][k] * x[1][k];
+        detail::rc::crossing_times(count, 0.0, 1.0, x[2], static_cast<const double*>(out[0]), out[0]);
+    }
 };
+static_assert(BlockEvaluableNetwork<one_shot>);
+
+/// The same network without a block evaluation: Monte Carlo evaluates it point by point.
+struct one_shot_pointwise {
+    static constexpr auto parameters = one_shot::parameters;
+    static constexpr auto metrics = one_shot::metrics;
+    one_shot n;
+    std::array<interval, 3> ranges() const { return n.ranges(); }
+    std::array<double, 1> evaluate(const std::array<double, 3>& x) const { return n.evaluate(x); }
+};
+static_assert(!BlockEvaluableNetwork<one_shot_pointwise>);
 
 const one_shot reference_one_shot{{.nominal = 100_kohm, .tol = tolerance::symmetric(0.01)},
                                   {.nominal = 10_nF, .tol = tolerance::symmetric(0.10)},
@@ -327,6 +346,173 @@ TEST_CASE("fixed parameters keep their value") {
     CHECK(x[2] == 2.0 / 3.0);
     CHECK(x[0] >= 99e3);
     CHECK(x[0] <= 101e3);
+}
+
+// ---- the block path (samples drawn and evaluated in chunks, parameters as columns) ----
+
+namespace {
+
+timer_astable test_oscillator() {  // near 1.24 kHz: 1.44 / ((Ra + 2 Rb) C), common practice
+    timer_astable n;
+    n.ra = {.nominal = 4.7_kohm, .tol = tolerance::symmetric(0.01), .tcr = ppm_band::symmetric(200)};
+    n.rb = {.nominal = 10_kohm, .tol = tolerance::symmetric(0.05)};
+    n.c = {.nominal = 47_nF, .tol = tolerance::symmetric(0.1), .tempco = c0g};
+    n.supply = ranged<voltage>::between(11.4_V, 12.6_V);
+    n.lower_threshold = ranged<double>::plus_minus(1.0 / 3.0, 0.01);
+    n.upper_threshold = ranged<double>::plus_minus(2.0 / 3.0, 0.01);
+    n.discharge_saturation = ranged<voltage>::between(0_V, 0.2_V);
+    n.conditions = {.t_min = celsius{0.0}, .t_max = celsius{50.0}};
+    return n;
+}
+
+/// Every metric's sample values as monte_carlo_sample and evaluate give them one
+/// sample at a time (the scalar path), sorted, and the joint pass count.
+template <class N>
+std::pair<std::array<std::vector<double>, metric_count_v<N>>, std::size_t> pointwise_samples(
+    const N& n, const monte_carlo_options<N>& opt) {
+    constexpr std::size_t M = metric_count_v<N>;
+    std::array<std::vector<double>, M> v;
+    std::size_t pass = 0;
+    for (std::size_t i = 0; i < opt.samples; ++i) {
+        const auto y = n.evaluate(monte_carlo_sample(n, opt, i));
+        bool ok = true;
+        for (std::size_t m = 0; m < M; ++m) {
+            v[m].push_back(y[m]);
+            ok = ok && (!opt.spec[m].low || y[m] >= *opt.spec[m].low) && (!opt.spec[m].high || y[m] <= *opt.spec[m].high);
+        }
+        pass += ok;
+    }
+    for (auto& x : v) std::sort(x.begin(), x.end());
+    return {v, pass};
+}
+
+template <std::size_t P, std::size_t M>
+void check_same_result(const monte_carlo_result<P, M>& a, const monte_carlo_result<P, M>& b) {
+    CHECK(a.passing == b.passing);
+    for (std::size_t m = 0; m < M; ++m) {
+        CHECK(same_bits(a[m].mean, b[m].mean));
+        CHECK(same_bits(a[m].stddev, b[m].stddev));
+        CHECK(same_bits(a[m].min, b[m].min));
+        CHECK(same_bits(a[m].max, b[m].max));
+        CHECK(a[m].inside == b[m].inside);
+        REQUIRE(a[m].percentiles.size() == b[m].percentiles.size());
+        for (std::size_t i = 0; i < a[m].percentiles.size(); ++i)
+            CHECK(same_bits(a[m].percentiles[i].value, b[m].percentiles[i].value));
+        REQUIRE(a[m].worst.size() == b[m].worst.size());
+        for (std::size_t i = 0; i < a[m].worst.size(); ++i) CHECK(a[m].worst[i].index == b[m].worst[i].index);
+        REQUIRE(a[m].distribution.size() == b[m].distribution.size());
+        for (std::size_t i = 0; i < a[m].distribution.size(); ++i)
+            CHECK(same_bits(a[m].distribution[i], b[m].distribution[i]));
+    }
+}
+
+/// The block path against the scalar path (every sample drawn and evaluated on
+/// its own, bit for bit), and 1 thread against 2 (the whole result, bit for bit).
+template <class N>
+void check_block_path(const N& n, monte_carlo_options<N> opt) {
+    constexpr std::size_t M = metric_count_v<N>;
+    opt.keep_distribution = true;
+    opt.threads = 1;
+    const auto one = monte_carlo(n, opt);
+    const auto [values, pass] = pointwise_samples(n, opt);
+    CHECK(one.passing == pass);
+    for (std::size_t m = 0; m < M; ++m) {
+        REQUIRE(one[m].distribution.size() == values[m].size());
+        std::size_t differ = 0;
+        for (std::size_t i = 0; i < values[m].size(); ++i) differ += !same_bits(one[m].distribution[i], values[m][i]);
+        CHECK(differ == 0);
+    }
+    opt.threads = 2;
+    check_same_result(one, monte_carlo(n, opt));
+}
+
+}  // namespace
+
+TEST_CASE("the block path gives bit for bit what sample-by-sample evaluation gives, on 1 and 2 threads") {
+    // Derivation: the block path draws the same stream numbers (sample i, parameter j
+    // -> splitmix64 output i P + j) through the same transforms, so every sample, and
+    // with it every statistic, must match the scalar path exactly. Sample counts are
+    // not multiples of the chunk (256) or the block (4096).
+    SUBCASE("one-shot with a block evaluation (rc.hpp's block kernel), normal parameters") {
+        monte_carlo_options<one_shot> opt;
+        opt.samples = 10'007;
+        opt.seed = 5;
+        opt.spec[0] = spec_window::between(1.0_ms, 1.2_ms);
+        check_block_path(reference_one_shot, opt);
+        // The network with and without evaluate_block: the same result.
+        opt.keep_distribution = false;
+        check_same_result(monte_carlo(reference_one_shot, opt),
+                          monte_carlo(one_shot_pointwise{reference_one_shot}, monte_carlo_options<one_shot_pointwise>{
+                                                                                  .seed = opt.seed,
+                                                                                  .samples = opt.samples,
+                                                                                  .spec = opt.spec}));
+    }
+    SUBCASE("one-shot, uniform parameters, an asymmetric interval") {
+        one_shot n = reference_one_shot;
+        n.ratio = ranged<double>::between(0.6, 0.7);
+        n.ratio.nominal = 0.62;
+        monte_carlo_options<one_shot> opt;
+        opt.samples = 4'099;
+        opt.distributions[0] = parameter_distribution::uniform();
+        opt.spec[0] = spec_window::between(0.9_ms, 1.2_ms);
+        check_block_path(n, opt);
+    }
+    SUBCASE("oscillator (timer_astable, five metrics), evaluated point by point") {
+        monte_carlo_options<timer_astable> opt;
+        opt.samples = 9'001;
+        opt.seed = 77;
+        opt.spec[timer_astable::frequency] = spec_window::between(1.15_kHz, 1.35_kHz);
+        check_block_path(test_oscillator(), opt);
+    }
+    SUBCASE("custom distributions mixed with normal and uniform ones") {
+        monte_carlo_options<timer_astable> opt;
+        opt.samples = 5'000;
+        opt.distributions[0] = parameter_distribution::custom([](double u) { return 4.6e3 + 200.0 * u * u; });
+        opt.distributions[2] = parameter_distribution::uniform();
+        opt.distributions[3] = parameter_distribution::custom([](double u) { return 11.4 + 1.2 * std::sqrt(u); });
+        opt.spec[timer_astable::frequency] = spec_window::between(1.15_kHz, 1.35_kHz);
+        check_block_path(test_oscillator(), opt);
+    }
+}
+
+TEST_CASE("the block draws equal the sample-by-sample draws, tails of the normal included") {
+    // Derivation: draw_block must reproduce draw() for every sample and parameter;
+    // a truncation at k = 2.5 sigma puts about 2.6 % of the p values of Acklam's
+    // lower tail region (p < 0.02425) in every chunk.
+    const one_shot n = reference_one_shot;
+    monte_carlo_options<one_shot> opt;
+    opt.convention.sigmas_per_half_width = 2.5;
+    opt.distributions[1] = parameter_distribution::uniform();
+    const auto r = n.ranges();
+    const auto s = detail::make_sampler<one_shot>("test", r, opt);
+    constexpr std::size_t C = detail::monte_carlo_chunk;
+    std::vector<double> columns(3 * C);
+    std::array<double*, 3> col{columns.data(), columns.data() + C, columns.data() + 2 * C};
+    std::size_t differ = 0;
+    for (const std::size_t i0 : {std::size_t{0}, std::size_t{1000}, std::size_t{123'457}})
+        for (const std::size_t count : {C, std::size_t{1}, std::size_t{97}}) {
+            s.draw_block(i0, count, col);
+            for (std::size_t k = 0; k < count; ++k) {
+                auto x = detail::nominal_point(r);
+                s.draw(i0 + k, x);
+                for (std::size_t j = 0; j < 3; ++j) differ += !same_bits(col[j][k], x[j]);
+            }
+        }
+    CHECK(differ == 0);
+}
+
+TEST_CASE("the block inverse normal CDF equals the pointwise one, in the centre and both tails") {
+    // Derivation: the same formulas element by element; p spans both of Acklam's tail
+    // regions (p < 0.02425 and p > 0.97575) and the centre.
+    constexpr std::size_t N = 64;
+    std::array<double, N> p{}, z{};
+    for (std::size_t i = 0; i < N; ++i) p[i] = std::pow(10.0, -12.0 + 12.0 * static_cast<double>(i) / N);
+    for (std::size_t i = N / 2; i < N; ++i) p[i] = 1.0 - p[i - N / 2];
+    for (const std::size_t n : {N, std::size_t{40}, std::size_t{1}}) {
+        z.fill(0.0);
+        detail::inverse_normal_cdf_block<N>(p.data(), z.data(), n);
+        for (std::size_t i = 0; i < n; ++i) CHECK(same_bits(z[i], detail::inverse_normal_cdf(p[i])));
+    }
 }
 
 TEST_CASE("bad Monte Carlo settings are errors") {

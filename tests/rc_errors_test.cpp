@@ -5,6 +5,8 @@
 
 #include <doctest/doctest.h>
 
+#include <algorithm>
+#include <cstddef>
 #include <limits>
 #include <stdexcept>
 
@@ -247,5 +249,40 @@ TEST_CASE("with_shunt and with_leakage_current reject non-physical parts") {
                          tauforge::invalid_argument);
     CHECK_THROWS_WITH_AS(with_leakage_current(5_V, 1_kohm, 1_nF, current::from_value(inf_value)),
                          "with_leakage_current: i_leak = inf A is invalid; expected a finite current",
+                         tauforge::invalid_argument);
+}
+
+TEST_CASE("the block kernel crossing_times gives crossing_time's values and errors element by element") {
+    // Derivation: the block kernel is the same formula with the checks run over the
+    // block first, so every element must match crossing_time bit for bit, and a bad
+    // element must raise crossing_time's own message for that element.
+    constexpr std::size_t n = 7;
+    const double vs[n] = {0.0, 5.0, 1.0, 0.0, -2.0, 3.0, 0.0};
+    const double vf[n] = {5.0, 0.0, 4.0, -5.0, 2.0, 3.5, 1.0};
+    const double vth[n] = {3.3333, 1.6667, 1.0, -0.1, 1.999, 3.2, 1e-9};  // [2]: at the start, t = 0
+    const double tau[n] = {1e-3, 2e-6, 5.0, 1e-9, 0.1, 47e-6, 1.0};
+    double out[n];
+    detail::rc::crossing_times(n, vs, vf, vth, tau, out);
+    for (std::size_t k = 0; k < n; ++k) {
+        INFO("k = " << k);
+        CHECK(out[k] == detail::rc::crossing_time(vs[k], vf[k], vth[k], tau[k]));
+    }
+    CHECK(out[2] == 0.0);
+    // Constant arguments mixed with columns.
+    detail::rc::crossing_times(1, 0.0, 1.0, vth + 6, tau, out);  // one element: vth[6], tau[0]
+    CHECK(out[0] == detail::rc::crossing_time(0.0, 1.0, 1e-9, 1e-3));
+    // A bad element (here the fifth: a threshold beyond the final value) throws its own message.
+    double bad_vth[n];
+    std::copy(vth, vth + n, bad_vth);
+    bad_vth[4] = 2.5;
+    CHECK_THROWS_WITH_AS(detail::rc::crossing_times(n, vs, vf, bad_vth, tau, out),
+                         "crossing_time: v_threshold = 2.5 V is not reached from v_start = -2 V towards v_final = "
+                         "2 V; expected a threshold strictly between start and final value, or equal to the start",
+                         tauforge::domain_error);
+    double bad_tau[n];
+    std::copy(tau, tau + n, bad_tau);
+    bad_tau[3] = nan_value;
+    CHECK_THROWS_WITH_AS(detail::rc::crossing_times(n, vs, vf, vth, bad_tau, out),
+                         "crossing_time: tau = nan s is invalid; expected a positive, finite time constant",
                          tauforge::invalid_argument);
 }

@@ -1,9 +1,12 @@
 // Tests of analysis/worst_case.hpp: REFERENCES.md one-shot extremes ("computed"),
 // interior extrema placed by construction, and a dense brute-force grid.
 #include "approx.hpp"
+#include "random_cases.hpp"
 
 #include <tauforge/analysis/function_network.hpp>
 #include <tauforge/analysis/worst_case.hpp>
+#include <tauforge/networks/timer_astable.hpp>
+#include <tauforge/networks/timer_monostable.hpp>
 #include <tauforge/parts.hpp>
 #include <tauforge/rc.hpp>
 
@@ -11,6 +14,9 @@
 
 #include <chrono>
 #include <cmath>
+#include <cstring>
+#include <random>
+#include <utility>
 
 using namespace tauforge;
 using namespace tauforge::literals;
@@ -231,4 +237,84 @@ TEST_CASE("bad ranges and non-finite metrics are errors naming the parameter or 
     CHECK_THROWS_WITH_AS(worst_case(reference_one_shot, {.grid_points = 40}),
                          "worst_case: grid_points = 40 is invalid; expected 3 to 32 points per parameter",
                          tauforge::invalid_argument);
+}
+
+namespace {
+
+/// The whole of two worst_case results, bit for bit (evaluations aside).
+template <std::size_t P, std::size_t M>
+std::size_t differences(const worst_case_result<P, M>& a, const worst_case_result<P, M>& b) {
+    auto bits = [](double x, double y) { return std::memcmp(&x, &y, sizeof x) != 0; };
+    std::size_t d = a.free_parameters != b.free_parameters;
+    for (std::size_t j = 0; j < P; ++j) d += a.monotone[j] != b.monotone[j];
+    for (std::size_t m = 0; m < M; ++m) {
+        d += bits(a[m].nominal, b[m].nominal);
+        for (const auto& [x, y] : {std::pair{&a[m].min, &b[m].min}, std::pair{&a[m].max, &b[m].max}}) {
+            d += bits(x->value, y->value);
+            for (std::size_t j = 0; j < P; ++j)
+                d += bits(x->parameters[j], y->parameters[j]) + (x->positions[j] != y->positions[j]);
+        }
+    }
+    return d;
+}
+
+struct fgh_names {
+    static constexpr std::array<quantity_info, 3> parameters{{{"x", ""}, {"y", ""}, {"z", ""}}};
+    static constexpr std::array<quantity_info, 3> metrics{{{"f", ""}, {"g", ""}, {"h", ""}}};
+};
+
+}  // namespace
+
+TEST_CASE("worst_case's shortcuts leave every bound and corner identical to the full search, on random cases") {
+    // The shortcuts (coinciding lines of the monotonicity scan scanned once; no scan
+    // for a network that declares itself monotone) may only save evaluations: the
+    // full search (detail::worst_case_search with full = true) is the reference.
+    using tauforge_test::between;
+    std::mt19937_64 g(20261204);
+    std::size_t saved = 0, differ = 0, cases = 0;
+    for (int i = 0; i < 40; ++i) {
+        // Oscillators: declared monotone (no scan) unless a steering diode meets V_sat > 0.
+        timer_astable a;
+        a.ra = {.nominal = resistance::from_value(between(g, 1e3, 1e5)), .tol = tolerance::symmetric(between(g, 0.001, 0.05)),
+                .tcr = ppm_band::symmetric(between(g, 0.0, 200.0))};
+        a.rb = {.nominal = resistance::from_value(between(g, 1e3, 1e5)), .tol = tolerance::symmetric(between(g, 0.001, 0.05))};
+        a.c = {.nominal = capacitance::from_value(between(g, 1e-9, 1e-6)), .tol = tolerance::symmetric(between(g, 0.01, 0.2))};
+        a.supply = ranged<voltage>::between(voltage::from_value(between(g, 3.0, 4.5)), voltage::from_value(between(g, 5.0, 15.0)));
+        a.lower_threshold = ranged<double>::plus_minus(1.0 / 3.0, between(g, 0.0, 0.03));
+        a.upper_threshold = ranged<double>::plus_minus(2.0 / 3.0, between(g, 0.0, 0.03));
+        a.discharge_saturation = ranged<voltage>::between(0_V, voltage::from_value(between(g, 0.0, 0.2)));
+        a.steering_diode = i % 4 == 3;
+        a.conditions = {.t_min = celsius{between(g, -40.0, 0.0)}, .t_max = celsius{between(g, 30.0, 85.0)}};
+        const auto fa = detail::worst_case_search(a, {}, true), sa = worst_case(a);
+        differ += differences(fa, sa);
+        saved += fa.evaluations - sa.evaluations;
+        // One-shots: not declared monotone, so scanned, with coinciding lines skipped.
+        timer_monostable m;
+        m.r = {.nominal = resistance::from_value(between(g, 1e3, 1e6)), .tol = tolerance::symmetric(between(g, 0.001, 0.05))};
+        m.c = {.nominal = capacitance::from_value(between(g, 1e-9, 1e-5)), .tol = tolerance::symmetric(between(g, 0.01, 0.2))};
+        m.supply = ranged<voltage>::between(voltage::from_value(between(g, 3.0, 4.5)), voltage::from_value(between(g, 5.0, 15.0)));
+        m.upper_threshold = ranged<double>::plus_minus(between(g, 0.3, 0.8), between(g, 0.0, 0.05));
+        m.discharge_resistance = ranged<resistance>::between(resistance::from_value(between(g, 0.0, 10.0)),
+                                                             resistance::from_value(between(g, 10.0, 50.0)));
+        m.propagation_delay = ranged<duration>::between(0_s, duration::from_value(between(g, 0.0, 1e-6)));
+        const auto fm = detail::worst_case_search(m, {}, true), sm = worst_case(m);
+        differ += differences(fm, sm);
+        saved += fm.evaluations - sm.evaluations;
+        // Function networks: a monotone metric, one turning inside x's interval and one
+        // flat in z, so the scan finds both kinds and the interior search runs.
+        const double c = between(g, 0.2, 0.8), w = between(g, 0.5, 2.0);
+        const auto f = make_function_network<fgh_names>(
+            {interval{0.5, 0.0, 1.0}, interval{1.5, 1.0, 2.0}, interval{between(g, 0.0, 1.0), 0.0, 1.0}},
+            [c, w](const std::array<double, 3>& x) {
+                return std::array<double, 3>{x[0] + w * x[1] + x[2], (x[0] - c) * (x[0] - c) + x[1], w * x[1]};
+            });
+        const auto ff = detail::worst_case_search(f, {}, true), sf = worst_case(f);
+        differ += differences(ff, sf);
+        saved += ff.evaluations - sf.evaluations;
+        CHECK_FALSE(sf.monotone[0]);  // the scan still finds the turn of (x - c)^2
+        cases += 3;
+    }
+    CHECK(cases == 120);
+    CHECK(differ == 0);
+    CHECK(saved > 0);  // the shortcuts do save evaluations
 }

@@ -87,10 +87,36 @@ constexpr bool corners_are_bounds(const N& n) {
         return true;
 }
 
+/// Whether n itself declares, through a member `corners_are_bounds()` that returns
+/// true, that every metric is monotone in every parameter (DEVELOPERS.md, "Adding a
+/// network"); false for a network without the member. `worst_case` then trusts the
+/// corners and skips its monotonicity scan.
+template <class N>
+constexpr bool declares_corners_are_bounds(const N& n) {
+    if constexpr (requires { { n.corners_are_bounds() } -> std::convertible_to<bool>; })
+        return n.corners_are_bounds();
+    else
+        return false;
+}
+
 template <TimingNetwork N>
 inline constexpr std::size_t parameter_count_v = N::parameters.size();
 template <TimingNetwork N>
 inline constexpr std::size_t metric_count_v = N::metrics.size();
+
+/// `BlockEvaluableNetwork<N>`: a TimingNetwork that can also evaluate a block of
+/// points at once, parameters as columns: `n.evaluate_block(count, x, out)` with
+/// x[j] pointing to `count` values of parameter j and out[m] to `count` slots
+/// for metric m. It must give bit-for-bit what `evaluate` gives at every point
+/// and throw what `evaluate` throws at the first point where it would. Optional:
+/// Monte Carlo uses it when present and `evaluate` point by point otherwise.
+template <class N>
+concept BlockEvaluableNetwork =
+    TimingNetwork<N> && requires(const N& n, std::size_t count,
+                                 const std::array<const double*, N::parameters.size()>& x,
+                                 const std::array<double*, N::metrics.size()>& out) {
+        { n.evaluate_block(count, x, out) } -> std::same_as<void>;
+    };
 
 /// `DesignableNetwork<N>`: a TimingNetwork some of whose parts synthesis can
 /// choose. `with_parts` returns a copy with those parts' nominal values and

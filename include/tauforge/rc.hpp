@@ -16,8 +16,11 @@
 
 #include <algorithm>
 #include <cmath>
+#include <cstddef>
+#include <limits>
 #include <numbers>
 #include <string>
+#include <type_traits>
 #include <utility>
 
 namespace tauforge {
@@ -131,6 +134,44 @@ double crossing_per_tau_varying(double vs, double vf, double vth, NextBreak next
         kp = kq;
     }
     return sum;
+}
+
+/// One argument of a block kernel: the same value for every element, or one per element.
+constexpr double block_lane(double v, std::size_t) { return v; }
+constexpr double block_lane(const double* v, std::size_t k) { return v[k]; }
+
+/// out[k] = crossing_time(vs, vf, vth, tau) for k < n, each argument a double (the
+/// same for the whole block) or a pointer to n values: the block kernel of Monte
+/// Carlo. Each element's checks are folded into one flag, without branches, in
+/// the same loop as the logarithm (whose latency hides them); only when one
+/// fails does the block go through crossing_time element by element, which
+/// throws the first bad element's message. Every value is bit-identical to
+/// crossing_time's.
+template <class Vs, class Vf, class Vth, class Tau>
+void crossing_times(std::size_t n, Vs vs, Vf vf, Vth vth, Tau tau, double* out) {
+    constexpr double big = std::numeric_limits<double>::max();
+    constexpr bool same_start_and_final = std::is_same_v<Vs, double> && std::is_same_v<Vf, double>;
+    bool valid = true;
+    double lo = 0.0, hi = 0.0;
+    if constexpr (same_start_and_final) {  // checked once; the threshold then needs lo < vth < hi
+        valid = std::abs(block_lane(vs, 0)) <= big && std::abs(block_lane(vf, 0)) <= big;
+        lo = std::min(block_lane(vs, 0), block_lane(vf, 0)), hi = std::max(block_lane(vs, 0), block_lane(vf, 0));
+    }
+    for (std::size_t k = 0; k < n; ++k) {
+        const double s = block_lane(vs, k), f = block_lane(vf, k), th = block_lane(vth, k), t = block_lane(tau, k);
+        // The conditions of check_tau, check_voltages and log_ratio_to_threshold.
+        bool ok;
+        if constexpr (same_start_and_final)
+            ok = (t > 0.0) & (t <= big) & (((lo < th) & (th < hi)) | (th == s));
+        else
+            ok = (t > 0.0) & (t <= big) & (std::abs(s) <= big) & (std::abs(f) <= big) & (std::abs(th) <= big) &
+                 (((s < th) & (th < f)) | ((f < th) & (th < s)) | (th == s));
+        valid = valid & ok;
+        out[k] = t * (th == s ? 0.0 : log_ratio_from_gaps(s - th, th - f));
+    }
+    if (!valid)
+        for (std::size_t k = 0; k < n; ++k)
+            out[k] = crossing_time(block_lane(vs, k), block_lane(vf, k), block_lane(vth, k), block_lane(tau, k));
 }
 
 /// x + expm1(-x) = x^2/2 - x^3/6 + ..., without cancellation for small x.

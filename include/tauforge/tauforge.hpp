@@ -11,6 +11,7 @@
 #include "tauforge/analysis/worst_case.hpp"
 #include "tauforge/capacitor_kinds.hpp"
 #include "tauforge/concepts.hpp"
+#include "tauforge/core.hpp"
 #include "tauforge/dc_bias.hpp"
 #include "tauforge/error.hpp"
 #include "tauforge/networks/adc_settling.hpp"

@@ -13,7 +13,12 @@
 /// counter-based stream, so any sample can be drawn on its own. Samples are
 /// processed in fixed blocks of `monte_carlo_block` samples; each block's
 /// moments are merged in block order, so the result is bit-for-bit the same
-/// for any thread count. (Across platforms the sequence is fixed; the values
+/// for any thread count. Within a block, samples are drawn and evaluated in
+/// chunks of `detail::monte_carlo_chunk`, parameters as columns (the transforms
+/// run over whole columns, the inverse normal CDF vectorised); a network that
+/// is a BlockEvaluableNetwork evaluates each chunk at once, any other one point
+/// by point. Every sample is bit-identical to `monte_carlo_sample` followed by
+/// `evaluate`. (Across platforms the sequence is fixed; the values
 /// agree to the last bit where the math library's log and the network's own
 /// functions round alike.)
 ///
@@ -209,6 +214,28 @@ struct random_transform {
     double piece_sigma[2] = {0.0, 0.0};  // s-, -s+
     const std::function<double(double)>* custom = nullptr;
 
+    // Left piece (side 0): v = u / p_left, p = Phi(-k) + v (1/2 - Phi(-k)) = 1/2 - (1 - v) body,
+    // x = nominal + s- z. Right piece (side 1): v = (u - p_left) / (1 - p_left),
+    // p = 1/2 - v body, x = nominal - s+ z. Both give p in [Phi(-k), 1/2]. The side is
+    // a coin flip, so it indexes small tables instead of taking a branch.
+
+    /// Normal: the probability p whose standard normal quantile z gives the value.
+    double normal_probability(double u) const {
+        const int side = u >= p_left;
+        const double v = (u - piece_offset[side]) * piece_scale[side];
+        const double w = piece_flip[side] + piece_sign[side] * v;
+        return 0.5 - w * body;
+    }
+
+    /// Normal: the value from u and z = inverse_normal_cdf(normal_probability(u)).
+    /// (One select rather than a table: a loop over a block then vectorises.)
+    double normal_value(double u, double z) const {
+        const double x = nominal + (u >= p_left ? piece_sigma[1] : piece_sigma[0]) * z;
+        // The quantile approximation (relative error < 1.15e-9) could step a
+        // hair past +/- k; the truncation is at the interval.
+        return std::clamp(x, low, high);
+    }
+
     double operator()(double u) const {
         switch (kind) {
             case distribution_kind::uniform:
@@ -218,19 +245,35 @@ struct random_transform {
             case distribution_kind::normal:
                 break;
         }
-        // Left piece (side 0): v = u / p_left, p = Phi(-k) + v (1/2 - Phi(-k)) = 1/2 - (1 - v) body,
-        // x = nominal + s- z. Right piece (side 1): v = (u - p_left) / (1 - p_left),
-        // p = 1/2 - v body, x = nominal - s+ z. Both give p in [Phi(-k), 1/2]. The side is
-        // a coin flip, so it indexes small tables instead of taking a branch.
-        const int side = u >= p_left;
-        const double v = (u - piece_offset[side]) * piece_scale[side];
-        const double w = piece_flip[side] + piece_sign[side] * v;
-        const double x = nominal + piece_sigma[side] * inverse_normal_cdf(0.5 - w * body);
-        // The quantile approximation (relative error < 1.15e-9) could step a
-        // hair past +/- k; the truncation is at the interval.
-        return std::clamp(x, low, high);
+        return normal_value(u, inverse_normal_cdf(normal_probability(u)));
+    }
+
+    /// x[k] = (*this)(u[k]) for k < n <= N, bit-identical. N is a compile-time
+    /// constant so that the loops vectorise without a remainder; except for a
+    /// custom distribution, x[n .. N) gets values of no meaning (u must hold N values).
+    template <std::size_t N>
+    void apply_block(const double* __restrict u, double* __restrict x, std::size_t n) const {
+        const random_transform t = *this;  // a local copy: the stores cannot alias it
+        switch (kind) {
+            case distribution_kind::uniform:
+                for (std::size_t k = 0; k < N; ++k) x[k] = t.low + u[k] * t.width;
+                return;
+            case distribution_kind::custom:
+                for (std::size_t k = 0; k < n; ++k) x[k] = (*custom)(u[k]);
+                return;
+            case distribution_kind::normal:
+                break;
+        }
+        std::array<double, N> p;
+        for (std::size_t k = 0; k < N; ++k) p[k] = t.normal_probability(u[k]);
+        inverse_normal_cdf_block<N>(p.data(), x, n);
+        for (std::size_t k = 0; k < N; ++k) x[k] = t.normal_value(u[k], x[k]);
     }
 };
+
+/// Samples per chunk of the block path: parameters and metrics of one chunk, as
+/// columns, stay in the first-level cache.
+inline constexpr std::size_t monte_carlo_chunk = 256;
 
 template <std::size_t P>
 struct random_sampler {
@@ -243,6 +286,22 @@ struct random_sampler {
         for (std::size_t j = 0; j < P; ++j, state += splitmix_gamma) {
             if (t[j].fixed) continue;
             x[j] = t[j](uniform53(splitmix_mix(state)));
+        }
+    }
+
+    /// The parameters of samples i0 .. i0 + n - 1 (n <= monte_carlo_chunk) as
+    /// columns of monte_carlo_chunk values: x[j][k] is parameter j of sample
+    /// i0 + k, bit-identical to draw(); x[j][n ..) gets values of no meaning.
+    /// Fixed parameters' columns are left as they are.
+    void draw_block(std::size_t i0, std::size_t n, const std::array<double*, P>& x) const {
+        constexpr std::size_t C = monte_carlo_chunk;
+        std::array<double, C> u;
+        for (std::size_t j = 0; j < P; ++j) {
+            if (t[j].fixed) continue;
+            std::uint64_t state = seed + (static_cast<std::uint64_t>(i0) * P + 1 + j) * splitmix_gamma;
+            constexpr std::uint64_t step = P * splitmix_gamma;
+            for (std::size_t k = 0; k < C; ++k, state += step) u[k] = uniform53(splitmix_mix(state));
+            t[j].template apply_block<C>(u.data(), x[j], n);
         }
     }
 };
@@ -427,10 +486,21 @@ monte_carlo_result<parameter_count_v<N>, metric_count_v<N>> monte_carlo(const N&
     std::atomic<std::size_t> next{0};
     std::atomic<bool> failed{false};
 
+    const auto fs = detail::free_parameters(r);
     auto worker = [&] {
+        constexpr std::size_t C = detail::monte_carlo_chunk;
         std::array<std::vector<double>, M> local;
         if (!keep)
             for (auto& l : local) l.resize(B);
+        // One chunk of samples as columns; fixed parameters' columns hold the nominal.
+        std::vector<double> columns(P * C);
+        std::array<double*, P> col;
+        std::array<const double*, P> col_in;
+        for (std::size_t j = 0; j < P; ++j) {
+            col[j] = columns.data() + j * C;
+            col_in[j] = col[j];
+            std::fill(col[j], col[j] + C, x_nominal[j]);
+        }
         auto x = x_nominal;
         for (;;) {
             if (failed.load(std::memory_order_relaxed)) return;
@@ -440,15 +510,25 @@ monte_carlo_result<parameter_count_v<N>, metric_count_v<N>> monte_carlo(const N&
                 const std::size_t i0 = b * B, i1 = std::min(ns, i0 + B), nb = i1 - i0;
                 std::array<double*, M> out;
                 for (std::size_t m = 0; m < M; ++m) out[m] = keep ? store[m].data() + i0 : local[m].data();
-                std::size_t pass = 0;
-                for (std::size_t i = i0; i < i1; ++i) {
-                    sampler.draw(i, x);
-                    const auto v = n.evaluate(x);
-                    bool ok = true;
-                    for (std::size_t m = 0; m < M; ++m) {
-                        out[m][i - i0] = v[m];
-                        ok = ok && v[m] >= spec_lo[m] && v[m] <= spec_hi[m];
+                for (std::size_t c0 = i0; c0 < i1; c0 += C) {
+                    const std::size_t nc = std::min(C, i1 - c0);
+                    sampler.draw_block(c0, nc, col);
+                    std::array<double*, M> chunk_out;
+                    for (std::size_t m = 0; m < M; ++m) chunk_out[m] = out[m] + (c0 - i0);
+                    if constexpr (BlockEvaluableNetwork<N>) {
+                        n.evaluate_block(nc, col_in, chunk_out);
+                    } else {
+                        for (std::size_t k = 0; k < nc; ++k) {
+                            for (std::size_t f = 0; f < fs.count; ++f) x[fs.index[f]] = col[fs.index[f]][k];
+                            const auto v = n.evaluate(x);
+                            for (std::size_t m = 0; m < M; ++m) chunk_out[m][k] = v[m];
+                        }
                     }
+                }
+                std::size_t pass = 0;
+                for (std::size_t i = 0; i < nb; ++i) {
+                    bool ok = true;
+                    for (std::size_t m = 0; m < M; ++m) ok = ok && out[m][i] >= spec_lo[m] && out[m][i] <= spec_hi[m];
                     pass += ok;
                 }
                 block_pass[b] = pass;

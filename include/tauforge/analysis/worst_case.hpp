@@ -15,7 +15,9 @@
 ///   parameter; a parameter along which some metric changes direction gets its
 ///   interior searched (a grid, then golden-section refinement, with the other
 ///   parameters at their corners), so an interior extremum such as x (1 - x)
-///   at x = 1/2 is found.
+///   at x = 1/2 is found. Lines of the check that coincide are scanned once, and
+///   a network that declares itself monotone (a member `corners_are_bounds()`
+///   returning true) is not scanned: its corners are its bounds.
 ///
 /// The corners grow as 2^k in the number k of free (low < high) parameters;
 /// fixed parameters are not enumerated. k is limited to 20 (about a million
@@ -127,13 +129,14 @@ inline constexpr std::size_t analysis_max_grid = 33;  // 32 grid points + the no
 
 }  // namespace detail
 
-/// The extremes of every metric over the parameters' intervals and the corners
-/// that produce them; see the header comment for the method. The reported
-/// extremes are true bounds when, along each parameter, a change of direction
-/// shows up between `scan_points` equally spaced points (at the nominal or at an
-/// extreme corner of the others) and each metric is unimodal between grid points.
+namespace detail {
+
+/// worst_case; `full` true is the search without its shortcuts (every line of
+/// the monotonicity scan, also where the network declares itself monotone), for
+/// the test that the shortcuts change nothing.
 template <TimingNetwork N>
-worst_case_result<parameter_count_v<N>, metric_count_v<N>> worst_case(const N& n, const worst_case_options& opt = {}) {
+worst_case_result<parameter_count_v<N>, metric_count_v<N>> worst_case_search(const N& n, const worst_case_options& opt,
+                                                                             bool full) {
     constexpr std::string_view fn = "worst_case";
     constexpr std::size_t P = parameter_count_v<N>, M = metric_count_v<N>;
     if (opt.scan_points < 3 || opt.scan_points > detail::analysis_max_grid)
@@ -181,13 +184,27 @@ worst_case_result<parameter_count_v<N>, metric_count_v<N>> worst_case(const N& n
     // parameter at `scan_points` with the others at the nominal and at each
     // metric's extreme corners; a significant rise and a significant fall on
     // the same line means the metric turns inside the interval.
+    // Lines that coincide are scanned once: two bases that differ at most in p give
+    // the same line along p (y[p] is overwritten), so the same values and verdict;
+    // extreme corners shared by several metrics, or differing only in p, are common.
+    // A network that declares every metric monotone in every parameter needs no scan:
+    // its corners are the bounds.
+    const bool scan = full || !declares_corners_are_bounds(n);
     std::size_t non_monotone = 0;
-    for (std::size_t b = 0; b < fs.count; ++b) {
+    for (std::size_t b = 0; b < fs.count && scan; ++b) {
         const std::size_t p = fs.index[b];
         bool turns = false;
+        std::array<std::array<double, P>, 1 + 2 * M> scanned;
+        std::size_t lines = 0;
         for (std::size_t base = 0; base < 1 + 2 * M && !turns; ++base) {
             std::array<double, P> y =
                 base == 0 ? detail::nominal_point(r) : (base % 2 ? lo_x[(base - 1) / 2] : hi_x[(base - 1) / 2]);
+            y[p] = r[p].low;
+            if (!full &&
+                std::find(scanned.begin(), scanned.begin() + static_cast<std::ptrdiff_t>(lines), y) !=
+                    scanned.begin() + static_cast<std::ptrdiff_t>(lines))
+                continue;
+            scanned[lines++] = y;
             std::array<double, M> scale{};
             std::array<bool, M> rise{}, fall{};
             std::array<std::array<double, detail::analysis_max_grid>, M> line{};
@@ -339,6 +356,18 @@ worst_case_result<parameter_count_v<N>, metric_count_v<N>> worst_case(const N& n
         res.metrics[m] = {nominal[m], make_corner(lo_v[m], best_lo[m]), make_corner(hi_v[m], best_hi[m])};
     }
     return res;
+}
+
+}  // namespace detail
+
+/// The extremes of every metric over the parameters' intervals and the corners
+/// that produce them; see the header comment for the method. The reported
+/// extremes are true bounds when, along each parameter, a change of direction
+/// shows up between `scan_points` equally spaced points (at the nominal or at an
+/// extreme corner of the others) and each metric is unimodal between grid points.
+template <TimingNetwork N>
+worst_case_result<parameter_count_v<N>, metric_count_v<N>> worst_case(const N& n, const worst_case_options& opt = {}) {
+    return detail::worst_case_search(n, opt, false);
 }
 
 }  // namespace tauforge

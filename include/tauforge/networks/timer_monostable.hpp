@@ -162,14 +162,7 @@ struct timer_monostable {
         const double rr = x[p_r], cc = x[p_c], vcc = x[p_supply], vsat = x[p_sat], ron = x[p_ron], ib = x[p_bias];
         const double vth = control_voltage ? x[p_control] : x[p_ratio] * vcc;
         const double v_final = vcc - ib * rr;
-        if (!(v_final > vth))
-            throw domain_error(
-                "timer_monostable::evaluate: threshold_bias = " + detail::value_text(current::from_value(ib)) +
-                " is invalid; expected below (supply - threshold) / R = (" +
-                detail::value_text(voltage::from_value(vcc)) + " - " + detail::value_text(voltage::from_value(vth)) +
-                ") / " + detail::value_text(resistance::from_value(rr)) + " = " +
-                detail::value_text(current::from_value((vcc - vth) / rr)) +
-                ", or the capacitor never reaches the threshold");
+        if (!(v_final > vth)) bias_too_large(ib, vcc, vth, rr);
         const double v_hold = held_level(rr, vcc, vsat, ron, ib);
         const double width = rr * cc * c.crossing_per_tau(v_hold, v_final, vth) + x[p_delay];
         const double tau_discharge = cc * (rr * ron / (rr + ron));
@@ -178,6 +171,18 @@ struct timer_monostable {
             : c.dc_bias  ? tau_discharge * c.crossing_per_tau(vth, v_hold, v_hold + recovery_fraction * (vth - v_hold))
                          : settling_time(recovery_fraction, duration::from_value(tau_discharge)).value();
         return {width, recovery, 1.0 / (width + recovery)};
+    }
+
+    /// The error of evaluate, out of its line so that evaluate stays small enough to inline.
+    [[noreturn]] static void bias_too_large(double ib, double vcc, double vth, double rr) {
+        throw domain_error("timer_monostable::evaluate: threshold_bias = " +
+                           detail::value_text(current::from_value(ib)) +
+                           " is invalid; expected below (supply - threshold) / R = (" +
+                           detail::value_text(voltage::from_value(vcc)) + " - " +
+                           detail::value_text(voltage::from_value(vth)) + ") / " +
+                           detail::value_text(resistance::from_value(rr)) + " = " +
+                           detail::value_text(current::from_value((vcc - vth) / rr)) +
+                           ", or the capacitor never reaches the threshold");
     }
 
     /// The level the switch holds the node at: V_sat + R_on (V_cc - V_sat - I_b R) / (R + R_on).
