@@ -31,17 +31,25 @@ namespace {
 
 // ---- arguments: floats in SI base units or value strings --------------------------
 
+/// A float from a Python number; anything else is a TypeError naming what was given.
+double number_arg(py::handle h) {
+    if (!PyNumber_Check(h.ptr()) || py::isinstance<py::str>(h))
+        throw py::type_error("expected a number in SI base units or a value string, not " +
+                             py::str(h.get_type().attr("__name__")).cast<std::string>());
+    return py::float_(py::reinterpret_borrow<py::object>(h)).cast<double>();
+}
+
 /// A quantity from a float (SI base unit) or a value string read by tauforge::parse.
 template <class Q>
 Q quantity_arg(py::handle h) {
     if (py::isinstance<py::str>(h)) return parse<Q>(h.cast<std::string>());
-    return Q::from_value(h.cast<double>());
+    return Q::from_value(number_arg(h));
 }
 
 /// A plain number or a ratio text ("0.5", "50 %").
 double ratio_arg(py::handle h) {
     if (py::isinstance<py::str>(h)) return parse_ratio(h.cast<std::string>());
-    return h.cast<double>();
+    return number_arg(h);
 }
 
 /// A tolerance: a Tolerance, a text ("5%", "J", "+80/-20%"), a fraction (0.05 is ±5 %)
