@@ -335,6 +335,7 @@ struct network_base {
     virtual py::dict settings() const = 0;
     virtual py::list parts() const = 0;
     virtual py::dict ranges() const = 0;
+    virtual std::string repr() const = 0;
     virtual py::dict evaluate(py::handle x) const = 0;
     virtual py::dict worst_case() const = 0;
     virtual py::dict sensitivity() const = 0;
@@ -465,19 +466,43 @@ struct network_impl final : network_base {
         return d;
     }
 
+    /// The parts' rows; their ranges when the network's parameters are valid, else None.
     py::list parts() const override {
+        std::optional<std::array<interval, P>> r;
+        try {
+            r = net.ranges();
+        } catch (const tauforge::invalid_argument&) {
+        } catch (const tauforge::domain_error&) {
+        }
         py::list out;
-        for (const auto& r : tfcli::part_rows(def(), net, net.ranges(), {})) {
+        for (const auto& row : tfcli::part_rows(def(), net, r.value_or(std::array<interval, P>{}), {})) {
             py::dict d;
-            d["name"] = r.name;
-            d["kind"] = r.kind;
-            d["value"] = r.value;
-            d["tolerance"] = r.tol;
-            d["tempco"] = r.tempco;
-            d["range"] = interval_tuple(r.range);
+            d["name"] = row.name;
+            d["kind"] = row.kind;
+            d["value"] = row.value;
+            d["tolerance"] = row.tol;
+            d["tempco"] = row.tempco;
+            d["range"] = r ? py::object(interval_tuple(row.range)) : py::object(py::none());
             out.append(d);
         }
         return out;
+    }
+
+    /// The Python class name (set by bind_network).
+    static inline std::string python_name;
+
+    /// Class(part="value,tolerance[,tempco]", ...): reads back as a network with these parts.
+    std::string repr() const override {
+        std::string s = python_name + "(";
+        bool first = true;
+        for (const auto& row : tfcli::part_rows(def(), net, std::array<interval, P>{}, {})) {
+            if (row.value == 0.0) continue;
+            s += (first ? "" : ", ") + row.name + "=\"" +
+                 format_si(row.value, row.kind == "resistor" ? "\u03A9" : "F", {.digits = 6}) + "," +
+                 format_tolerance(row.tol, {.digits = 6}) + (row.tempco.empty() ? "" : "," + row.tempco) + "\"";
+            first = false;
+        }
+        return s + ")";
     }
 
     py::dict ranges() const override {
@@ -492,7 +517,12 @@ struct network_impl final : network_base {
         auto p = detail::nominal_point(r);
         if (x.is_none()) return p;
         if (py::isinstance<py::dict>(x)) {
-            for (auto [k, v] : x.cast<py::dict>()) p[tfcli::find_name(py::cast<std::string>(k), N::parameters, "parameter")] = py::cast<double>(v);
+            for (auto [k, v] : x.cast<py::dict>()) {
+                const auto name = py::cast<std::string>(k);
+                const std::size_t j = tfcli::find_name(name, N::parameters, "parameter");
+                p[j] = py::isinstance<py::str>(v) ? tfcli::parse_by_unit(py::cast<std::string>(v), N::parameters[j].unit, name)
+                                                  : number_arg(v);
+            }
             return p;
         }
         const auto v = x.cast<std::vector<double>>();
@@ -585,8 +615,9 @@ struct network_impl final : network_base {
         else if (a.distribution != "normal")
             throw tauforge::invalid_argument("monte_carlo: distribution = \"" + a.distribution +
                                              "\" is invalid; expected normal or uniform");
+        const N local = net;  // another Python thread may change this network meanwhile
         py::gil_scoped_release release;
-        return tauforge::monte_carlo(net, mo);
+        return tauforge::monte_carlo(local, mo);
     }
 
     py::dict monte_carlo(const mc_args& a, py::handle spec) const override {
@@ -807,11 +838,12 @@ struct network_impl final : network_base {
                 for (const auto& x : res.designs) designs.append(design_dict(x, network_of(x), spec, rows));
                 out["designs"] = designs;
             };
+            const N base = net;  // another Python thread may change this network meanwhile
             if (progress.is_none()) {
                 synthesis_result<N> res;
                 {
                     py::gil_scoped_release release;
-                    res = tauforge::synthesize(net, spec, cands, opt);
+                    res = tauforge::synthesize(base, spec, cands, opt);
                 }
                 finish(res, [](const design<N>& x) { return x.network; });
             } else {
@@ -824,7 +856,7 @@ struct network_impl final : network_base {
                 synthesis_result<W> res;
                 try {
                     py::gil_scoped_release release;
-                    res = tauforge::synthesize(W{net, &state}, wspec, cands, opt);
+                    res = tauforge::synthesize(W{base, &state}, wspec, cands, opt);
                 } catch (const search_cancelled&) {
                     std::rethrow_exception(state.error);
                 }
@@ -839,6 +871,7 @@ struct network_impl final : network_base {
 template <class N, tfcli::network_def<N> (*Make)()>
 void bind_network(py::module_& m, py::dict& registry, const char* class_name) {
     using impl = network_impl<N, Make>;
+    impl::python_name = class_name;
     const auto& def = impl::def();
     std::string doc = std::string(def.title) + ".\n\n" + std::string(def.summary) + "\n\nParts: ";
     for (std::size_t i = 0; i < def.parts.size(); ++i) doc += (i ? ", " : "") + std::string(def.parts[i].name);
@@ -902,6 +935,9 @@ PYBIND11_MODULE(tauforge, m) {
             invalid(e.what());
         } catch (const tauforge::domain_error& e) {
             domain(e.what());
+        } catch (const py::cast_error& e) {
+            // A value of the wrong Python type (pybind11 reports it as RuntimeError).
+            PyErr_SetString(PyExc_TypeError, e.what());
         }
     });
     m.attr("InvalidArgument").attr("__doc__") =
@@ -1109,6 +1145,7 @@ PYBIND11_MODULE(tauforge, m) {
              "Sets a part (\"R\", \"100k,1%\"), a setting (\"supply\", \"4.5V..5.5V\") or the temperature range.")
         .def_property_readonly("settings", &network_base::settings, "Every setting as text.")
         .def_property_readonly("parts", &network_base::parts, "The fitted parts with their range at temperature.")
+        .def("__repr__", &network_base::repr)
         .def("ranges", &network_base::ranges, "Each parameter's (nominal, low, high) in SI units.")
         .def("evaluate", &network_base::evaluate, py::arg("x") = py::none(),
              "Every metric at the nominal point, or at x (dict parameter -> value, or one value per parameter).");

@@ -85,3 +85,14 @@ def test_evaluate_at_a_named_point():
     base = net.evaluate()["delay"]
     twice = net.evaluate({"R": 20e3})["delay"]
     assert twice == pytest.approx(2 * base, rel=1e-12)   # delay proportional to R C (derivation)
+
+
+def test_repr_reads_back_and_parts_before_values():
+    net = tf.TimerMonostable(R="100k,1%", C="10n,10%,X7R")
+    assert repr(net) == 'TimerMonostable(R="100 kΩ,±1 %", C="10 nF,±10 %,X7R")'
+    again = eval(repr(net), {"TimerMonostable": tf.TimerMonostable})
+    assert again.ranges() == net.ranges()
+    empty = tf.RcDelay()
+    assert repr(empty) == "RcDelay()"
+    assert [p["range"] for p in empty.parts] == [None, None]   # no values yet: no ranges
+    assert net.evaluate({"R": "200k"})["pulse width"] == pytest.approx(2 * net.evaluate()["pulse width"], rel=1e-12)
