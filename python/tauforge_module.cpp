@@ -839,6 +839,7 @@ struct network_impl final : network_base {
                 out["designs"] = designs;
             };
             const N base = net;  // another Python thread may change this network meanwhile
+            tfcli::require_valid_settings(base, cands);
             if (progress.is_none()) {
                 synthesis_result<N> res;
                 {

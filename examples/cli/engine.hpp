@@ -695,6 +695,15 @@ void add_window(tauforge::timing_spec<N>& spec, const requirement_row& q) {
     else add([](double v) { return v; });
 }
 
+/// Throws the network's own message when its settings are invalid whatever the parts
+/// (synthesis would skip every candidate and report no design instead).
+template <class N, std::size_t S>
+void require_valid_settings(const N& base, const std::array<std::vector<tauforge::candidate_value>, S>& cands) {
+    std::array<tauforge::part_choice, S> first{};
+    for (std::size_t s = 0; s < S; ++s) first[s] = {cands[s].front().value, cands[s].front().tol};
+    (void)base.with_parts(first).ranges();
+}
+
 template <class N>
 design_result run_design(const network_def<N>& def, const request& rq) {
     constexpr std::size_t S = N::design_slots.size(), M = tauforge::metric_count_v<N>;
@@ -743,11 +752,7 @@ design_result run_design(const network_def<N>& def, const request& rq) {
         src.count = cands[s].size();
         d.sources.push_back(src);
     }
-    {  // settings valid before the search, with the network's own message
-        std::array<tauforge::part_choice, S> first{};
-        for (std::size_t s = 0; s < S; ++s) first[s] = {cands[s].front().value, cands[s].front().tol};
-        (void)base.with_parts(first).ranges();
-    }
+    require_valid_settings(base, cands);
     const auto res = tauforge::synthesize(base, spec, cands, {.top_k = rq.top});
     d.evaluated = res.evaluated;
     d.feasible = res.feasible();

@@ -76,3 +76,10 @@ def test_synthesis_releases_the_gil(ticks_during):
         method="exhaustive"))
     assert elapsed > 0.05
     assert ticks > 0.2 * elapsed / 0.001
+
+
+def test_invalid_settings_are_an_error_not_an_empty_result():
+    # A threshold above the supply: the network's own message, before any search.
+    with pytest.raises(ValueError, match="threshold") as e:
+        tf.synthesize(tf.RcDelay(threshold="1.5"), {"delay": "1ms,20%"})
+    assert isinstance(e.value, (tf.InvalidArgument, tf.DomainError))
