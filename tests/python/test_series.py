@@ -68,3 +68,17 @@ def test_best_pairs_and_single():
     a, b = parallel["first"]["value"], parallel["second"]["value"]
     assert parallel["value"] == pytest.approx(a * b / (a + b), rel=1e-15)   # product over sum
     assert r.best_single(4800)["value"] == 4700.0
+
+
+def test_stock_file_and_lookups(tmp_path):
+    path = tmp_path / "resistors.txt"
+    path.write_text("4k7, F\n10k, 1%\n# spare\n100R\n", encoding="utf-8")
+    r = tf.ResistorValues.read_stock_file(str(path), default_tolerance="5%")
+    assert r.values == [100.0, 4700.0, 10000.0]
+    assert r.round_down(9999)["value"] == 4700.0
+    assert r.round_down(99) is None
+    assert r.find("4.7k")["tolerance"] == tf.Tolerance(0.01)
+    assert r.find(4800) is None
+    assert r.find(4800, rel_tol=0.05)["value"] == 4700.0
+    with pytest.raises(tf.InvalidArgument, match="a readable stock file"):
+        tf.ResistorValues.read_stock_file(str(tmp_path / "missing.txt"))
