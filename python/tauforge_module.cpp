@@ -920,6 +920,7 @@ PYBIND11_MODULE(tauforge, m) {
         "tauforge: RC timing networks from requirement to purchasable parts, proven at worst case.\n\n"
         "Quantities are floats in SI base units (ohm, F, s, V, A, Hz) or value strings (\"4k7\", \"10 nF\").\n"
         "Results are design estimates: verify every timing on real hardware.";
+    m.attr("__version__") = TAUFORGE_CLI_VERSION;
 
     // Errors: one Python class per library error kind, all ValueError, carrying the library's message.
     static py::exception<tauforge::invalid_argument> invalid(m, "InvalidArgument", PyExc_ValueError);

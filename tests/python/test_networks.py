@@ -96,3 +96,10 @@ def test_repr_reads_back_and_parts_before_values():
     assert repr(empty) == "RcDelay()"
     assert [p["range"] for p in empty.parts] == [None, None]   # no values yet: no ranges
     assert net.evaluate({"R": "200k"})["pulse width"] == pytest.approx(2 * net.evaluate()["pulse width"], rel=1e-12)
+
+
+def test_every_public_name_is_documented():
+    assert tf.__version__ == "0.1.0"                 # project(tauforge VERSION ...) in CMakeLists.txt
+    undocumented = [name for name in dir(tf) if not name.startswith("_") and callable(getattr(tf, name))
+                    and not (getattr(tf, name).__doc__ or "").strip()]
+    assert undocumented == []
