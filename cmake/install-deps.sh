@@ -2,11 +2,14 @@
 # Installs, from Debian's packages, whatever tauforge's build, tests, benchmarks
 # and examples need and this machine lacks; does nothing when all is present.
 #   cmake/install-deps.sh          build, test, bench and example dependencies
-#                                  (libexpat1-dev and python3 for the command-line tests)
+#                                  (libexpat1-dev and python3 for the command-line tests;
+#                                  pybind11-dev, python3-dev and python3-pytest for the
+#                                  Python module and its tests)
 #   cmake/install-deps.sh --fuzz   also clang and its runtime (libFuzzer)
 set -eu
 
-packages="g++ cmake libboost-dev doctest-dev libbenchmark-dev nlohmann-json3-dev libcli11-dev libexpat1-dev python3 time"
+packages="g++ cmake libboost-dev doctest-dev libbenchmark-dev nlohmann-json3-dev libcli11-dev libexpat1-dev python3
+  time python3-dev pybind11-dev python3-pytest"
 if [ "${1:-}" = "--fuzz" ]; then
   packages="$packages clang libclang-rt-14-dev"
 fi

@@ -253,7 +253,7 @@ inline std::string tempco_text(const std::variant<tauforge::ppm_band, tauforge::
 }
 
 /// What a command requires of the parts.
-enum class part_use { marked, chosen };
+enum class part_use { marked, chosen, any };
 
 template <class N>
 const part_binding<N>& find_part(const network_def<N>& def, std::string_view name) {
@@ -275,6 +275,44 @@ const setting<N>& find_setting(const network_def<N>& def, std::string_view name)
     for (const auto& s : def.settings) valid += (valid.empty() ? "" : ", ") + std::string(s.name);
     throw usage_error("setting \"" + std::string(name) + "\" is not a setting of " + std::string(def.name) +
                       "; expected one of " + valid);
+}
+
+/// Sets the part `b` of n from a part text (value, tolerance, temperature behaviour,
+/// fields in any order). `use`: marked parts need a value and a tolerance; chosen
+/// parts (design) may only carry their temperature behaviour; any: whatever is given.
+template <class N>
+void apply_part(N& n, const part_binding<N>& b, std::string_view text, part_use use) {
+    const std::string what = "part " + std::string(b.name) + " \"" + std::string(text) + "\"";
+    std::visit(
+        [&](auto member) {
+            auto& part = *part_at(n, member, true);
+            constexpr bool is_resistor = std::is_same_v<std::remove_cvref_t<decltype(part)>, tauforge::resistor>;
+            const auto p = parse_part(text, is_resistor ? tauforge::part_kind::resistor : tauforge::part_kind::capacitor, what);
+            if (use == part_use::chosen && (p.value || p.tol))
+                throw usage_error(what + ": design chooses the value and tolerance of " + std::string(b.name) +
+                                  "; give only its temperature behaviour here (e.g. 100ppm, X7R) and its values with --" +
+                                  (is_resistor ? "resistors" : "capacitors") + " or --slot " + std::string(b.name) + "=E96");
+            if (p.value) part.nominal = quantity_of<decltype(part.nominal)>(*p.value);
+            if (p.tol) part.tol = *p.tol;
+            if constexpr (is_resistor) {
+                if (p.tcr) part.tcr = *p.tcr;
+            } else {
+                // A technology brings its usual tolerance unless one is given.
+                if (p.technology) part = tauforge::make_capacitor(*p.technology, part.nominal, p.tol);
+                if (p.tcr) part.tempco = *p.tcr;
+                if (p.dielectric) {
+                    part.tempco = *p.dielectric;
+                    part.aging_per_decade = tauforge::typical_aging_per_decade(*p.dielectric);
+                }
+                if (p.rated_voltage) part.rated_voltage = tauforge::voltage::from_value(*p.rated_voltage);
+                if (p.size) part.dc_bias = tauforge::dc_bias_curve::class2_estimate(*part.rated_voltage, *p.size);
+            }
+            if (use == part_use::marked && (!p.value || (!p.tol && !p.technology)))
+                throw usage_error(what + ": " + (p.value ? "no tolerance" : "no value") + "; expected e.g. --part " +
+                                  std::string(b.name) + "=" + (is_resistor ? "100k,1%" : "10n,10%") +
+                                  " (a tolerance of 0% for an exact part)");
+        },
+        b.member);
 }
 
 /// The network as the request describes it. `use`: marked parts need a value and a
@@ -304,37 +342,7 @@ N build_network(const network_def<N>& def, const request& rq, part_use use) {
         const std::size_t index = static_cast<std::size_t>(&b - def.parts.data());
         if (seen[index]) throw usage_error("part " + std::string(b.name) + " is given twice; expected one --part per part");
         seen[index] = true;
-        const std::string what = "part " + std::string(b.name) + " \"" + v + "\"";
-        std::visit(
-            [&](auto member) {
-                auto& part = *part_at(n, member, true);
-                constexpr bool is_resistor = std::is_same_v<std::remove_cvref_t<decltype(part)>, tauforge::resistor>;
-                const auto p = parse_part(v, is_resistor ? tauforge::part_kind::resistor : tauforge::part_kind::capacitor, what);
-                if (use == part_use::chosen && (p.value || p.tol))
-                    throw usage_error(what + ": design chooses the value and tolerance of " + std::string(b.name) +
-                                      "; give only its temperature behaviour here (e.g. 100ppm, X7R) and its values with --" +
-                                      (is_resistor ? "resistors" : "capacitors") + " or --slot " + std::string(b.name) + "=E96");
-                if (p.value) part.nominal = quantity_of<decltype(part.nominal)>(*p.value);
-                if (p.tol) part.tol = *p.tol;
-                if constexpr (is_resistor) {
-                    if (p.tcr) part.tcr = *p.tcr;
-                } else {
-                    // A technology brings its usual tolerance unless one is given.
-                    if (p.technology) part = tauforge::make_capacitor(*p.technology, part.nominal, p.tol);
-                    if (p.tcr) part.tempco = *p.tcr;
-                    if (p.dielectric) {
-                        part.tempco = *p.dielectric;
-                        part.aging_per_decade = tauforge::typical_aging_per_decade(*p.dielectric);
-                    }
-                    if (p.rated_voltage) part.rated_voltage = tauforge::voltage::from_value(*p.rated_voltage);
-                    if (p.size) part.dc_bias = tauforge::dc_bias_curve::class2_estimate(*part.rated_voltage, *p.size);
-                }
-                if (use == part_use::marked && (!p.value || (!p.tol && !p.technology)))
-                    throw usage_error(what + ": " + (p.value ? "no tolerance" : "no value") + "; expected e.g. --part " +
-                                      std::string(b.name) + "=" + (is_resistor ? "100k,1%" : "10n,10%") +
-                                      " (a tolerance of 0% for an exact part)");
-            },
-            b.member);
+        apply_part(n, b, v, use);
     }
     if (use == part_use::marked)
         for (std::size_t i = 0; i < def.parts.size(); ++i)
@@ -699,6 +707,15 @@ void add_window(tauforge::timing_spec<N>& spec, const requirement_row& q) {
     else add([](double v) { return v; });
 }
 
+/// Throws the network's own message when its settings are invalid whatever the parts
+/// (synthesis would skip every candidate and report no design instead).
+template <class N, std::size_t S>
+void require_valid_settings(const N& base, const std::array<std::vector<tauforge::candidate_value>, S>& cands) {
+    std::array<tauforge::part_choice, S> first{};
+    for (std::size_t s = 0; s < S; ++s) first[s] = {cands[s].front().value, cands[s].front().tol};
+    (void)base.with_parts(first).ranges();
+}
+
 template <class N>
 design_result run_design(const network_def<N>& def, const request& rq) {
     constexpr std::size_t S = N::design_slots.size(), M = tauforge::metric_count_v<N>;
@@ -747,11 +764,7 @@ design_result run_design(const network_def<N>& def, const request& rq) {
         src.count = cands[s].size();
         d.sources.push_back(src);
     }
-    {  // settings valid before the search, with the network's own message
-        std::array<tauforge::part_choice, S> first{};
-        for (std::size_t s = 0; s < S; ++s) first[s] = {cands[s].front().value, cands[s].front().tol};
-        (void)base.with_parts(first).ranges();
-    }
+    require_valid_settings(base, cands);
     const auto res = tauforge::synthesize(base, spec, cands, {.top_k = rq.top});
     d.evaluated = res.evaluated;
     d.feasible = res.feasible();

@@ -1,6 +1,6 @@
 // Catalogue entry: a sampling ADC's input (tauforge::adc_settling). Nothing to
 // design here (the source and the converter are given), so: check, limits, readback.
-#include "engine.hpp"
+#include "network_defs.hpp"
 #include "trace.hpp"
 
 #include <tauforge/detail/two_stage.hpp>
@@ -37,7 +37,7 @@ waveform trace(const as& n, const point<as>& x, std::size_t, double t_end) {
 
 }  // namespace
 
-network_entry adc_settling_entry() {
+network_def<as> adc_settling_def() {
     network_def<as> d;
     d.name = "adc_settling";
     d.title = "sampling ADC input settling to half an LSB";
@@ -58,7 +58,9 @@ network_entry adc_settling_entry() {
     d.example_settings = {"source=100..470", "switch-resistance=500..1.5k", "sample-capacitance=5p..8p", "bits=12"};
     d.example_spec = {"acquisition-time<=5us"};
     d.trace = trace;
-    return make_entry(std::move(d));
+    return d;
 }
+
+network_entry adc_settling_entry() { return make_entry(adc_settling_def()); }
 
 }  // namespace tfcli

@@ -1,5 +1,5 @@
 // Catalogue entry: the switch debouncer (tauforge::debounce).
-#include "engine.hpp"
+#include "network_defs.hpp"
 #include "trace.hpp"
 
 #include <tauforge/networks/debounce.hpp>
@@ -33,7 +33,7 @@ waveform trace(const db& n, const point<db>& x, std::size_t metric, double t_end
 
 }  // namespace
 
-network_entry debounce_entry() {
+network_def<db> debounce_def() {
     network_def<db> d;
     d.name = "debounce";
     d.title = "switch debouncer (R1 pull-up, R2 and C into a Schmitt input)";
@@ -54,7 +54,9 @@ network_entry debounce_entry() {
     d.example_settings = {"upper-threshold=0.6..0.7", "lower-threshold=0.3..0.4"};
     d.example_spec = {"press-delay=10ms..40ms", "release-delay=10ms..40ms"};
     d.trace = trace;
-    return make_entry(std::move(d));
+    return d;
 }
+
+network_entry debounce_entry() { return make_entry(debounce_def()); }
 
 }  // namespace tfcli

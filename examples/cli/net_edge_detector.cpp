@@ -1,5 +1,5 @@
 // Catalogue entry: the falling-edge trigger (tauforge::edge_detector).
-#include "engine.hpp"
+#include "network_defs.hpp"
 #include "trace.hpp"
 
 #include <tauforge/networks/edge_detector.hpp>
@@ -25,7 +25,7 @@ waveform trace(const ed& n, const point<ed>& x, std::size_t, double t_end) {
 
 }  // namespace
 
-network_entry edge_detector_entry() {
+network_def<ed> edge_detector_def() {
     network_def<ed> d;
     d.name = "edge_detector";
     d.title = "falling-edge trigger (series C, pull-up R)";
@@ -43,7 +43,9 @@ network_entry edge_detector_entry() {
     d.example_parts = {"R=10k,5%", "C=470p,10%"};
     d.example_spec = {"pulse-width=1us..5us"};
     d.trace = trace;
-    return make_entry(std::move(d));
+    return d;
 }
+
+network_entry edge_detector_entry() { return make_entry(edge_detector_def()); }
 
 }  // namespace tfcli

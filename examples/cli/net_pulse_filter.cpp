@@ -1,5 +1,5 @@
 // Catalogue entry: the one-stage pulse-train averaging filter (tauforge::pulse_filter).
-#include "engine.hpp"
+#include "network_defs.hpp"
 #include "pulse_train.hpp"
 #include "trace.hpp"
 
@@ -36,7 +36,7 @@ waveform trace(const pf& n, const point<pf>& x, std::size_t, double t_end) {
 
 }  // namespace
 
-network_entry pulse_filter_entry() {
+network_def<pf> pulse_filter_def() {
     network_def<pf> d;
     d.name = "pulse_filter";
     d.title = "RC averaging filter for a pulse train (PWM to DC)";
@@ -51,7 +51,9 @@ network_entry pulse_filter_entry() {
     d.example_settings = pulse_train_example_settings;
     d.example_spec = {"ripple<=20mV", "settling<=60ms"};
     d.trace = trace;
-    return make_entry(std::move(d));
+    return d;
 }
+
+network_entry pulse_filter_entry() { return make_entry(pulse_filter_def()); }
 
 }  // namespace tfcli

@@ -1,5 +1,5 @@
 // Catalogue entry: the RC delay (tauforge::rc_delay).
-#include "engine.hpp"
+#include "network_defs.hpp"
 #include "trace.hpp"
 
 #include <tauforge/networks/rc_delay.hpp>
@@ -39,7 +39,7 @@ waveform trace(const rd& n, const point<rd>& x, std::size_t, double t_end) {
 
 }  // namespace
 
-network_entry rc_delay_entry() {
+network_def<rd> rc_delay_def() {
     network_def<rd> d;
     d.name = "rc_delay";
     d.title = "RC delay (power-on reset, enable delay)";
@@ -61,7 +61,9 @@ network_entry rc_delay_entry() {
     d.example_parts = {"R=10k,5%", "C=100n,10%"};
     d.example_spec = {"delay=0.8ms..1.4ms"};
     d.trace = trace;
-    return make_entry(std::move(d));
+    return d;
 }
+
+network_entry rc_delay_entry() { return make_entry(rc_delay_def()); }
 
 }  // namespace tfcli

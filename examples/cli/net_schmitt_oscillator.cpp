@@ -1,5 +1,5 @@
 // Catalogue entry: the Schmitt-trigger RC oscillator (tauforge::schmitt_oscillator).
-#include "engine.hpp"
+#include "network_defs.hpp"
 #include "trace.hpp"
 
 #include <tauforge/networks/schmitt_oscillator.hpp>
@@ -37,7 +37,7 @@ waveform trace(const so& n, const point<so>& x, std::size_t, double t_end) {
 
 }  // namespace
 
-network_entry schmitt_oscillator_entry() {
+network_def<so> schmitt_oscillator_def() {
     network_def<so> d;
     d.name = "schmitt_oscillator";
     d.title = "Schmitt-trigger RC oscillator";
@@ -60,7 +60,9 @@ network_entry schmitt_oscillator_entry() {
     d.example_settings = {"upper-threshold=0.6..0.7", "lower-threshold=0.3..0.4"};
     d.example_spec = {"frequency=500Hz..1.4kHz"};
     d.trace = trace;
-    return make_entry(std::move(d));
+    return d;
 }
+
+network_entry schmitt_oscillator_entry() { return make_entry(schmitt_oscillator_def()); }
 
 }  // namespace tfcli

@@ -1,5 +1,5 @@
 // Catalogue entry: the comparator-timer oscillator (tauforge::timer_astable).
-#include "engine.hpp"
+#include "network_defs.hpp"
 #include "trace.hpp"
 
 #include <tauforge/networks/timer_astable.hpp>
@@ -43,7 +43,7 @@ waveform trace(const ta& n, const point<ta>& x, std::size_t, double t_end) {
 
 }  // namespace
 
-network_entry timer_astable_entry() {
+network_def<ta> timer_astable_def() {
     network_def<ta> d;
     d.name = "timer_astable";
     d.title = "comparator-timer oscillator";
@@ -64,7 +64,9 @@ network_entry timer_astable_entry() {
     d.example_parts = {"Ra=1.78k,1%", "Rb=4.12k,1%", "C=10n,5%"};
     d.example_spec = {"frequency=13kHz..16kHz"};
     d.trace = trace;
-    return make_entry(std::move(d));
+    return d;
 }
+
+network_entry timer_astable_entry() { return make_entry(timer_astable_def()); }
 
 }  // namespace tfcli

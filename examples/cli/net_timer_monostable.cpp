@@ -1,5 +1,5 @@
 // Catalogue entry: the comparator-timer one-shot (tauforge::timer_monostable).
-#include "engine.hpp"
+#include "network_defs.hpp"
 #include "trace.hpp"
 
 #include <tauforge/networks/timer_monostable.hpp>
@@ -37,7 +37,7 @@ waveform trace(const tm& n, const point<tm>& x, std::size_t, double t_end) {
 
 }  // namespace
 
-network_entry timer_monostable_entry() {
+network_def<tm> timer_monostable_def() {
     network_def<tm> d;
     d.name = "timer_monostable";
     d.title = "comparator-timer one-shot";
@@ -63,7 +63,9 @@ network_entry timer_monostable_entry() {
     d.example_parts = {"R=100k,1%", "C=10n,10%"};
     d.example_spec = {"pulse-width=0.9ms..1.3ms"};
     d.trace = trace;
-    return make_entry(std::move(d));
+    return d;
 }
+
+network_entry timer_monostable_entry() { return make_entry(timer_monostable_def()); }
 
 }  // namespace tfcli

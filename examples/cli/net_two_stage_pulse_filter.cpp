@@ -1,5 +1,5 @@
 // Catalogue entry: the two-stage pulse-train averaging filter (tauforge::two_stage_pulse_filter).
-#include "engine.hpp"
+#include "network_defs.hpp"
 #include "pulse_train.hpp"
 #include "trace.hpp"
 
@@ -43,7 +43,7 @@ waveform trace(const tf& n, const point<tf>& x, std::size_t, double t_end) {
 
 }  // namespace
 
-network_entry two_stage_pulse_filter_entry() {
+network_def<tf> two_stage_pulse_filter_def() {
     network_def<tf> d;
     d.name = "two_stage_pulse_filter";
     d.title = "two-stage RC averaging filter for a pulse train";
@@ -63,7 +63,9 @@ network_entry two_stage_pulse_filter_entry() {
     d.example_resistors = "E6,1k..100k";
     d.example_capacitors = "E6,10n..1u";
     d.trace = trace;
-    return make_entry(std::move(d));
+    return d;
 }
+
+network_entry two_stage_pulse_filter_entry() { return make_entry(two_stage_pulse_filter_def()); }
 
 }  // namespace tfcli
