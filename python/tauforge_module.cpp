@@ -427,7 +427,7 @@ struct network_impl final : network_base {
     }
 
     N net{};
-    std::string temperature, temperature_ref;
+    std::string temperature, temperature_ref, service_life;
 
     network_impl() = default;
     explicit network_impl(N n) : net(std::move(n)) {}
@@ -449,9 +449,9 @@ struct network_impl final : network_base {
     void set(const std::string& key, py::handle value) override {
         const std::string text = text_arg(value);
         const std::string k = setting_key(key);
-        if (k == "temperature" || k == "temperature ref") {
-            (k == "temperature" ? temperature : temperature_ref) = text;
-            net.conditions = tfcli::parse_temperature(temperature, temperature_ref);
+        if (k == "temperature" || k == "temperature ref" || k == "service life") {
+            (k == "temperature" ? temperature : k == "service life" ? service_life : temperature_ref) = text;
+            net.conditions = tfcli::parse_temperature(temperature, temperature_ref, service_life);
             return;
         }
         for (const auto& b : def().parts)
@@ -463,6 +463,7 @@ struct network_impl final : network_base {
         py::dict d;
         for (const auto& [k, v] : tfcli::settings_text(def(), net)) d[py::str(k)] = v;
         d["temperature"] = temperature.empty() ? std::string("25") : temperature;
+        if (!service_life.empty()) d["service life"] = service_life;
         return d;
     }
 
@@ -791,6 +792,7 @@ struct network_impl final : network_base {
         auto copy = std::make_unique<network_impl>(network);
         copy->temperature = temperature;
         copy->temperature_ref = temperature_ref;
+        copy->service_life = service_life;
         d["network"] = py::cast(std::move(copy));
         return d;
     }
@@ -879,6 +881,7 @@ void bind_network(py::module_& m, py::dict& registry, const char* class_name) {
     doc += "\nSettings:\n";
     for (const auto& s : def.settings) doc += "  " + std::string(s.name) + ": " + std::string(s.help) + "\n";
     doc += "  temperature: operating range in degC, e.g. \"-20..70\" (default 25)\n";
+    doc += "  service_life: hours or years the parts age over, e.g. \"10y\" (default new parts)\n";
     auto cls = py::class_<impl, network_base>(m, class_name, doc.c_str())
                    .def(py::init([](py::kwargs kw) {
                             auto n = std::make_unique<impl>();

@@ -103,3 +103,23 @@ def test_every_public_name_is_documented():
     undocumented = [name for name in dir(tf) if not name.startswith("_") and callable(getattr(tf, name))
                     and not (getattr(tf, name).__doc__ or "").strip()]
     assert undocumented == []
+
+
+def test_capacitor_kinds_dc_bias_and_ageing():
+    # The part texts of the command line: an X7R part with rating and case size takes the
+    # library's generic DC-bias estimate. 100 kΩ ±1 %, 10 nF ±10 %: R C ln 3 = 1.0986 ms at
+    # nominal without bias (common practice); with the 16 V 0603 estimate the same worst case
+    # as the command line's check (764 µs .. 952 µs, tests/cli/CMakeLists.txt).
+    plain = tf.TimerMonostable(R="100k,1%", C="10n,10%,X7R")
+    assert tf.worst_case(plain)["pulse width"]["nominal"] == pytest.approx(100e3 * 10e-9 * math.log(3), rel=1e-12)
+    biased = tf.TimerMonostable(R="100k,1%", C="10n,10%,X7R,16V,0603")
+    wc = tf.worst_case(biased)["pulse width"]
+    assert tf.format(wc["min"], "s") == "764 µs"
+    assert tf.format(wc["max"], "s") == "952 µs"
+    # An electrolytic ages over its service life: 2000 h at 105 °C lasts 32,000 h at 65 °C
+    # (10 K rule, common practice); five years is past its end of life.
+    aged = tf.RcDelay(R="100k,1%", C="100u,AL", temperature="0..65", service_life="2y")
+    assert aged.settings["service life"] == "2y"
+    assert aged.ranges()["C"][1] == pytest.approx(100e-6 * 0.8 * 0.7 * (1 - 0.2 * 17532 / 32000), rel=1e-12)
+    with pytest.raises(tf.DomainError, match="service_hours = 43830 h is invalid"):
+        tf.RcDelay(R="100k,1%", C="100u,AL", temperature="0..65", service_life="5y").ranges()
