@@ -220,6 +220,18 @@ inline double ramp_voltage_at(double v_begin, double v_end, double rise, double 
     return voltage_at(ramp_voltage_during(v_begin, slope, v_cap0, tau, rise), v_end, tau, t - rise);
 }
 
+/// The checks of a ramp crossing, reported as from the public crossing_time: false
+/// when the threshold is the start (t = 0), true when the crossing lies ahead.
+inline bool ramp_crossing_ahead(double v_begin, double v_end, double rise, double v_cap0, double vth, double tau) {
+    constexpr std::string_view fn = "crossing_time";
+    check_ramp(fn, v_begin, v_end, rise, v_cap0, tau);
+    require_finite(fn, "v_threshold", voltage::from_value(vth), "a finite voltage");
+    if (vth == v_cap0) return false;
+    const bool between = (v_cap0 < vth && vth < v_end) || (v_end < vth && vth < v_cap0);
+    if (!between) ramp_threshold_outside(fn, v_cap0, v_end, vth);
+    return true;
+}
+
 /// First time the capacitor, starting at v_cap0, crosses vth while the input ramps
 /// from v_begin to v_end over `rise` and then stays at v_end; errors are reported as
 /// from the public crossing_time. The threshold must lie strictly between v_cap0 and
@@ -229,12 +241,7 @@ inline double ramp_voltage_at(double v_begin, double v_end, double rise, double 
 /// (detail/root_find.hpp) down to a bracket of 4 machine epsilons relative (measured: within 2e-14 of a 50-digit reference, at most
 /// about 75 iterations); after it the closed form applies.
 inline double ramp_crossing_time(double v_begin, double v_end, double rise, double v_cap0, double vth, double tau) {
-    constexpr std::string_view fn = "crossing_time";
-    check_ramp(fn, v_begin, v_end, rise, v_cap0, tau);
-    require_finite(fn, "v_threshold", voltage::from_value(vth), "a finite voltage");
-    if (vth == v_cap0) return 0.0;
-    const bool between = (v_cap0 < vth && vth < v_end) || (v_end < vth && vth < v_cap0);
-    if (!between) ramp_threshold_outside(fn, v_cap0, v_end, vth);
+    if (!ramp_crossing_ahead(v_begin, v_end, rise, v_cap0, vth, tau)) return 0.0;
     if (rise == 0.0) return tau * log_ratio_from_gaps(v_cap0 - vth, vth - v_end);
     const double slope = (v_end - v_begin) / rise;
     // v' is monotone during the ramp (v'' = (slope - v') / tau), so v has at most one
@@ -291,12 +298,7 @@ inline constexpr double varying_ramp_tolerance = 1e-12;
 template <class NextBreak, class K>
 double ramp_crossing_time_varying(double v_begin, double v_end, double rise, double v_cap0, double vth, double tau,
                                   NextBreak next_break, K k) {
-    constexpr std::string_view fn = "crossing_time";
-    check_ramp(fn, v_begin, v_end, rise, v_cap0, tau);
-    require_finite(fn, "v_threshold", voltage::from_value(vth), "a finite voltage");
-    if (vth == v_cap0) return 0.0;
-    const bool between = (v_cap0 < vth && vth < v_end) || (v_end < vth && vth < v_cap0);
-    if (!between) ramp_threshold_outside(fn, v_cap0, v_end, vth);
+    if (!ramp_crossing_ahead(v_begin, v_end, rise, v_cap0, vth, tau)) return 0.0;
     if (rise == 0.0) return tau * crossing_per_tau_varying(v_cap0, v_end, vth, next_break, k);
     const double slope = (v_end - v_begin) / rise;
     const auto f = [&](double t, double v) { return (v_begin + slope * t - v) / (tau * k(v)); };
