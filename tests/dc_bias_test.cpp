@@ -378,3 +378,14 @@ TEST_CASE("Monte Carlo through a DC-bias curve: every sample scales by the hand-
     CHECK_REL(b.min, a.min * factor, 1e-12);
     CHECK_REL(b.max, a.max * factor, 1e-12);
 }
+
+TEST_CASE("voltages beyond the curve are an error, not an extrapolation") {
+    const dc_bias_curve c = straight_curve();  // 0 .. 10 V
+    CHECK_THROWS_WITH_AS(c.crossing_per_tau(0.0, 20.0, 12.0),
+                         "dc_bias_curve::crossing_per_tau: v = 12 V is invalid; expected a voltage within the DC-bias "
+                         "curve, up to 10 V either way",
+                         tauforge::domain_error);
+    CHECK_THROWS_AS(c.charge_factor(-11.0, 0.0), tauforge::domain_error);
+    CHECK_THROWS_AS(c.ramp_crossing_time(-20.0, 5.0, 1e-3, 0.0, 3.0, 1e-3), tauforge::domain_error);
+    CHECK_NOTHROW(c.crossing_per_tau(-10.0, 20.0, 10.0));
+}

@@ -27,6 +27,7 @@
 #include <algorithm>
 #include <cmath>
 #include <cstddef>
+#include <initializer_list>
 #include <string>
 #include <string_view>
 #include <vector>
@@ -102,7 +103,17 @@ struct dc_bias_curve {
                  "a voltage within the rated voltage " + detail::value_text(rated));
     }
 
-    /// The retained fraction at DC voltage v (either polarity); |v| within the curve (unchecked).
+    /// `domain_error` naming `fn` unless every |v| of `vs` lies within the curve.
+    void require_within(std::string_view fn, std::initializer_list<double> vs) const {
+        for (double v : vs)
+            if (!(std::abs(v) <= covers().value()))
+                throw domain_error(std::string(fn) + ": v = " + detail::value_text(voltage::from_value(v)) +
+                                   " is invalid; expected a voltage within the DC-bias curve, up to " +
+                                   detail::value_text(covers()) + " either way");
+    }
+
+    /// The retained fraction at DC voltage v (either polarity); |v| within the curve
+    /// (unchecked here: beyond the last point the last piece is extended).
     double at(double v) const {
         const double u = std::abs(v);
         std::size_t i = 1;
@@ -128,8 +139,10 @@ struct dc_bias_curve {
     }
 
     /// t / (R C(0 V)) for an RC crossing from v_start to v_threshold towards v_final
-    /// (rc.hpp's crossing_per_tau_varying over this curve). Voltages within the curve (unchecked).
+    /// (rc.hpp's crossing_per_tau_varying over this curve); `domain_error` for a start or
+    /// threshold beyond the curve.
     double crossing_per_tau(double v_start, double v_final, double v_threshold) const {
+        require_within("dc_bias_curve::crossing_per_tau", {v_start, v_threshold});
         return detail::rc::crossing_per_tau_varying(
             v_start, v_final, v_threshold, [this](double p, double q) { return next_break(p, q); },
             [this](double v) { return at(v); });
@@ -139,6 +152,7 @@ struct dc_bias_curve {
     /// tau = R C(0 V): rc.hpp's ramp_crossing_time_varying over this curve.
     double ramp_crossing_time(double v_begin, double v_end, double rise, double v_start, double v_threshold,
                               double tau) const {
+        require_within("dc_bias_curve::ramp_crossing_time", {v_begin, v_start, v_threshold});
         return detail::rc::ramp_crossing_time_varying(
             v_begin, v_end, rise, v_start, v_threshold, tau, [this](double p, double q) { return next_break(p, q); },
             [this](double v) { return at(v); });
@@ -155,6 +169,7 @@ struct dc_bias_curve {
     /// Q / dV over [v1, v2] divided by C(0 V): the plain mean of the curve, exact for a
     /// constant charging current (the trapezoid rule is exact on each linear piece).
     double charge_factor(double v1, double v2) const {
+        require_within("dc_bias_curve::charge_factor", {v1, v2});
         if (v1 == v2) return at(v1);
         const double lo = std::min(v1, v2), hi = std::max(v1, v2);
         double area = 0.0, p = lo;

@@ -306,7 +306,13 @@ double ramp_crossing_time_varying(double v_begin, double v_end, double rise, dou
     const double scale = varying_ramp_tolerance *
                          std::max({std::abs(v_begin), std::abs(v_end), std::abs(v_cap0), std::abs(vth)});
     double t = 0.0, v = v_cap0, h = std::min(rise, tau) * 1e-3;
-    while (t < rise) {
+    for (long steps = 0; t < rise; ++steps) {
+        if (steps == 1'000'000)
+            throw domain_error(std::string("crossing_time: the ramp from ") + value_text(voltage::from_value(v_begin)) +
+                               " to " + value_text(voltage::from_value(v_end)) + " over " +
+                               value_text(duration::from_value(rise)) +
+                               " into the voltage-dependent capacitance did not converge; expected a capacitance "
+                               "curve that stays positive over the swing");
         h = std::min(h, rise - t);
         const dp_step s = dormand_prince_step(f, t, v, h);
         const double err = std::abs(s.error);
@@ -318,7 +324,8 @@ double ramp_crossing_time_varying(double v_begin, double v_end, double rise, dou
             t += h;
             v = s.v;
         }
-        h *= err > 0.0 ? std::clamp(0.9 * std::pow(scale / err, 0.2), 0.2, 5.0) : 5.0;
+        // A step whose error is not a number (a trial point off the curve) shrinks too.
+        h *= err > 0.0 ? std::clamp(0.9 * std::pow(scale / err, 0.2), 0.2, 5.0) : err == 0.0 ? 5.0 : 0.2;
     }
     return rise + tau * crossing_per_tau_varying(v, v_end, vth, next_break, k);
 }
