@@ -75,16 +75,25 @@ concept TimingNetwork = requires(const N& n, const std::array<double, N::paramet
     { n.evaluate(x) } -> std::same_as<std::array<double, N::metrics.size()>>;
 };
 
+namespace detail {
+/// n's own answer to "do the corners bound the metrics?", or `absent` when it has no
+/// member `corners_are_bounds()`.
+template <class N>
+constexpr bool own_corners_are_bounds(const N& n, bool absent) {
+    if constexpr (requires { { n.corners_are_bounds() } -> std::convertible_to<bool>; })
+        return n.corners_are_bounds();
+    else
+        return absent;
+}
+}  // namespace detail
+
 /// Whether the corners of n's parameter box bound its metrics: true unless n
 /// has a member `corners_are_bounds()` that says otherwise because some metric
 /// can turn inside a parameter's interval (a pulse filter's ripple peaks at 50 %
 /// duty). Synthesis then scores designs with the full `worst_case` search.
 template <class N>
 constexpr bool corners_are_bounds(const N& n) {
-    if constexpr (requires { { n.corners_are_bounds() } -> std::convertible_to<bool>; })
-        return n.corners_are_bounds();
-    else
-        return true;
+    return detail::own_corners_are_bounds(n, true);
 }
 
 /// Whether n itself declares, through a member `corners_are_bounds()` that returns
@@ -93,10 +102,7 @@ constexpr bool corners_are_bounds(const N& n) {
 /// corners and skips its monotonicity scan.
 template <class N>
 constexpr bool declares_corners_are_bounds(const N& n) {
-    if constexpr (requires { { n.corners_are_bounds() } -> std::convertible_to<bool>; })
-        return n.corners_are_bounds();
-    else
-        return false;
+    return detail::own_corners_are_bounds(n, false);
 }
 
 template <TimingNetwork N>

@@ -138,16 +138,27 @@ inline void check_conditions(std::string_view fn, const operating_conditions& c)
         parts_fail(fn, "service_hours", quoted_value(c.service_hours) + " h", "a non-negative, finite number of hours");
 }
 
+/// A fraction in [0, 1): a loss, a drift, the lower side of a band. `expected` ends
+/// the message; the default names the range.
+inline void check_fraction_below_one(std::string_view fn, std::string_view parameter, double v,
+                                     std::string_view expected = "a fraction from 0 up to, not including, 100 %") {
+    if (!(std::isfinite(v) && v >= 0.0 && v < 1.0)) parts_fail(fn, parameter, format_percent(v, 6), expected);
+}
+
+/// Positive and finite, in hours.
+inline void check_hours(std::string_view fn, std::string_view parameter, double hours) {
+    if (!(std::isfinite(hours) && hours > 0.0))
+        parts_fail(fn, parameter, quoted_value(hours) + " h", "a positive, finite number of hours");
+}
+
 inline void check_tolerance(std::string_view fn, const tolerance& t) {
-    if (!(std::isfinite(t.minus) && t.minus >= 0.0 && t.minus < 1.0))
-        parts_fail(fn, "tol.minus", format_percent(t.minus, 6), "a fraction from 0 up to, not including, 100 %");
+    check_fraction_below_one(fn, "tol.minus", t.minus);
     if (!(std::isfinite(t.plus) && t.plus >= 0.0))
         parts_fail(fn, "tol.plus", format_percent(t.plus, 6), "a finite, non-negative fraction");
 }
 
 inline void check_aging(std::string_view fn, double aging) {
-    if (!(std::isfinite(aging) && aging >= 0.0 && aging < 1.0))
-        parts_fail(fn, "aging", format_percent(aging, 6), "a drift magnitude from 0 up to, not including, 100 %");
+    check_fraction_below_one(fn, "aging", aging, "a drift magnitude from 0 up to, not including, 100 %");
 }
 
 inline void check_rated(std::string_view fn, std::string_view what, celsius rated_min, celsius rated_max,
@@ -196,8 +207,7 @@ inline factor_span tcr_factor(std::string_view fn, std::string_view member, cons
 }
 
 inline factor_span class_factor(std::string_view fn, const dielectric_class& d, const operating_conditions& c) {
-    if (!(std::isfinite(d.minus) && d.minus >= 0.0 && d.minus < 1.0))
-        parts_fail(fn, "tempco.minus", format_percent(d.minus, 6), "a fraction from 0 up to, not including, 100 %");
+    check_fraction_below_one(fn, "tempco.minus", d.minus);
     if (!(std::isfinite(d.plus) && d.plus >= 0.0))
         parts_fail(fn, "tempco.plus", format_percent(d.plus, 6), "a finite, non-negative fraction");
     check_rated(fn, std::string(d.name), d.rated_min, d.rated_max, c);
@@ -453,12 +463,9 @@ private:
     /// is not credited. {1, 1, 1} for new parts.
     detail::factor_span service_factor(const operating_conditions& c) const {
         constexpr std::string_view fn = "capacitor::range";
-        if (!(std::isfinite(aging_per_decade) && aging_per_decade >= 0.0 && aging_per_decade < 1.0))
-            detail::parts_fail(fn, "aging_per_decade", format_percent(aging_per_decade, 6),
-                               "a fraction per decade of hours from 0 up to, not including, 100 %");
-        if (!(std::isfinite(aging_reference_hours) && aging_reference_hours > 0.0))
-            detail::parts_fail(fn, "aging_reference_hours", detail::quoted_value(aging_reference_hours) + " h",
-                               "a positive, finite number of hours");
+        detail::check_fraction_below_one(fn, "aging_per_decade", aging_per_decade,
+                                         "a fraction per decade of hours from 0 up to, not including, 100 %");
+        detail::check_hours(fn, "aging_reference_hours", aging_reference_hours);
         double kept = 1.0;
         if (aging_per_decade > 0.0 && c.service_hours > aging_reference_hours) {
             kept -= aging_per_decade * std::log10(c.service_hours / aging_reference_hours);
@@ -469,12 +476,8 @@ private:
         }
         if (end_of_life) {
             const wear_out& w = *end_of_life;
-            if (!(std::isfinite(w.loss) && w.loss >= 0.0 && w.loss < 1.0))
-                detail::parts_fail(fn, "end_of_life.loss", format_percent(w.loss, 6),
-                                   "a fraction from 0 up to, not including, 100 %");
-            if (!(std::isfinite(w.rated_hours) && w.rated_hours > 0.0))
-                detail::parts_fail(fn, "end_of_life.rated_hours", detail::quoted_value(w.rated_hours) + " h",
-                                   "a positive, finite number of hours");
+            detail::check_fraction_below_one(fn, "end_of_life.loss", w.loss);
+            detail::check_hours(fn, "end_of_life.rated_hours", w.rated_hours);
             if (!std::isfinite(w.rated_temperature.value))
                 detail::parts_fail(fn, "end_of_life.rated_temperature", format(w.rated_temperature, {.digits = 6}),
                                    "a finite temperature");

@@ -421,6 +421,13 @@ std::string parts_text(const design<N>& d) {
 
 inline std::string metric_value_text(std::string_view unit, double v) { return format_si(v, unit); }
 
+/// "margin 23.6 % (delay min)": a design's margin and the window edge that sets it.
+template <DesignableNetwork N>
+std::string margin_text(const design<N>& d, const std::vector<requirement>& reqs) {
+    return "margin " + format_percent(d.margin) + " (" + std::string(N::metrics[reqs[d.tight_requirement].metric].name) +
+           (d.tight_at_high ? " max)" : " min)");
+}
+
 template <DesignableNetwork N>
 void explain_infeasible(synthesis_result<N>& r, const std::vector<requirement>& reqs,
                         const std::optional<design<N>>& best) {
@@ -458,9 +465,10 @@ void explain_infeasible(synthesis_result<N>& r, const std::vector<requirement>& 
     }
 }
 
-template <std::size_t S>
-void check_candidates(const std::array<std::vector<candidate_value>, S>& c, const std::array<part_kind, S>& slot_kinds) {
-    for (std::size_t s = 0; s < S; ++s) {
+template <DesignableNetwork N>
+void check_candidates(const std::array<std::vector<candidate_value>, N::design_slots.size()>& c) {
+    for (std::size_t s = 0; s < c.size(); ++s) {
+        const part_kind slot_kind = N::design_slots[s].kind;
         if (c[s].empty())
             throw invalid_argument("synthesize: candidates for slot " + std::to_string(s) +
                                    " = empty is invalid; expected at least one value");
@@ -472,10 +480,10 @@ void check_candidates(const std::array<std::vector<candidate_value>, S>& c, cons
                 throw invalid_argument("synthesize: candidates for slot " + std::to_string(s) +
                                        " are invalid; expected them sorted by value");
             if (const part_model* m = c[s][i].model.get();
-                m && (slot_kinds[s] == part_kind::resistor ? !m->as_resistor() : !m->as_capacitor()))
+                m && (slot_kind == part_kind::resistor ? !m->as_resistor() : !m->as_capacitor()))
                 throw invalid_argument("synthesize: candidate model \"" + m->name + "\" of slot " + std::to_string(s) +
                                        " is invalid; expected a " +
-                                       (slot_kinds[s] == part_kind::resistor ? "resistor" : "capacitor") +
+                                       (slot_kind == part_kind::resistor ? "resistor" : "capacitor") +
                                        " model for this slot");
         }
     }
@@ -758,8 +766,6 @@ void solved_search(const N& base, const std::vector<requirement>& reqs,
     if (!pruned || top.empty()) fast_search(base, reqs, cands, how, top);
 }
 
-
-
 /// One search over candidate lists whose slots each hold one kind of part (or none).
 template <DesignableNetwork N>
 void search_one_kind(const N& base, const std::vector<requirement>& reqs,
@@ -784,18 +790,26 @@ void search_one_kind(const N& base, const std::vector<requirement>& reqs,
     exhaustive_search(base, reqs, cands, top);
 }
 
-/// The candidate lists split by kind of part: one entry per combination of the
-/// kinds offered in each slot (a single entry when no slot mixes kinds), with a
-/// label such as "C as X7R ceramic" naming the kinds of the mixed slots.
-template <DesignableNetwork N>
-std::vector<std::pair<std::string, std::array<std::vector<candidate_value>, N::design_slots.size()>>> split_by_kind(
-    const std::array<std::vector<candidate_value>, N::design_slots.size()>& cands) {
-    constexpr std::size_t S = N::design_slots.size();
+/// The kinds of part offered in each slot, in order of first appearance (nullptr:
+/// the network's own part).
+template <std::size_t S>
+std::array<std::vector<const part_model*>, S> kinds_per_slot(const std::array<std::vector<candidate_value>, S>& cands) {
     std::array<std::vector<const part_model*>, S> kinds;
     for (std::size_t s = 0; s < S; ++s)
         for (const auto& c : cands[s])
             if (std::find(kinds[s].begin(), kinds[s].end(), c.model.get()) == kinds[s].end())
                 kinds[s].push_back(c.model.get());
+    return kinds;
+}
+
+/// The candidate lists split by kind of part: one entry per combination of the
+/// `kinds` offered in each slot, with a label such as "C as X7R ceramic" naming
+/// the kinds of the slots that offer several.
+template <DesignableNetwork N>
+std::vector<std::pair<std::string, std::array<std::vector<candidate_value>, N::design_slots.size()>>> split_by_kind(
+    const std::array<std::vector<candidate_value>, N::design_slots.size()>& cands,
+    const std::array<std::vector<const part_model*>, N::design_slots.size()>& kinds) {
+    constexpr std::size_t S = N::design_slots.size();
     std::vector<std::pair<std::string, std::array<std::vector<candidate_value>, S>>> out;
     std::array<std::size_t, S> idx{};
     for (;;) {
@@ -828,25 +842,22 @@ template <DesignableNetwork N>
 synthesis_result<N> synthesize(const N& base, const timing_spec<N>& spec,
                                const std::array<std::vector<candidate_value>, N::design_slots.size()>& cands,
                                synthesis_options options = {}) {
-    constexpr std::size_t S = N::design_slots.size();
     if (options.top_k < 1 || options.top_k > 1000)
         throw invalid_argument("synthesize: top_k = " + std::to_string(options.top_k) +
                                " is invalid; expected 1 to 1000");
     const auto& reqs = spec.requirements();
     if (reqs.empty()) throw invalid_argument("synthesize: spec = empty is invalid; expected at least one window");
-    std::array<part_kind, S> slot_kinds{};
-    for (std::size_t s = 0; s < S; ++s) slot_kinds[s] = N::design_slots[s].kind;
-    detail::check_candidates(cands, slot_kinds);
+    detail::check_candidates<N>(cands);
     synthesis_result<N> r;
-    const auto groups = detail::split_by_kind<N>(cands);
+    const auto kinds = detail::kinds_per_slot(cands);
     detail::top_designs<N> top(options.top_k);
-    if (groups.size() == 1) {
+    if (std::all_of(kinds.begin(), kinds.end(), [](const auto& k) { return k.size() == 1; })) {
         detail::search_one_kind(base, reqs, cands, options, top);
         r.evaluated = top.evaluated();
     } else {
         // Each design belongs to one combination of kinds, so the top k of the
         // union is the top k of the groups' top k lists together.
-        for (const auto& [label, group] : groups) {
+        for (const auto& [label, group] : detail::split_by_kind<N>(cands, kinds)) {
             detail::top_designs<N> one(options.top_k);
             detail::search_one_kind(base, reqs, group, options, one);
             r.evaluated += one.evaluated();
@@ -859,10 +870,8 @@ synthesis_result<N> synthesize(const N& base, const timing_spec<N>& spec,
                 if (best) top.offer(design<N>(*best));
                 continue;
             }
-            const auto& b = kept.front();
-            const auto& tight = reqs[b.tight_requirement];
-            r.notes.push_back(label + ": best " + detail::parts_text(b) + ", margin " + format_percent(b.margin) +
-                              " (" + std::string(N::metrics[tight.metric].name) + (b.tight_at_high ? " max)" : " min)"));
+            r.notes.push_back(label + ": best " + detail::parts_text(kept.front()) + ", " +
+                              detail::margin_text(kept.front(), reqs));
             for (auto& d : kept) top.offer(std::move(d));
         }
     }
@@ -884,9 +893,7 @@ std::string describe(const design<N>& d, const timing_spec<N>& spec) {
         s += " " + std::string(info.name) + " " + detail::metric_value_text(info.unit, d.worst_min[q.metric]) +
              " .. " + detail::metric_value_text(info.unit, d.worst_max[q.metric]) + ";";
     }
-    const auto& tight = spec.requirements()[d.tight_requirement];
-    s += " margin " + format_percent(d.margin) + " (" + std::string(N::metrics[tight.metric].name) +
-         (d.tight_at_high ? " max)" : " min)");
+    s += " " + detail::margin_text(d, spec.requirements());
     return s;
 }
 
