@@ -280,9 +280,14 @@ struct random_sampler {
     std::uint64_t seed = 0;
     std::array<random_transform, P> t{};
 
+    /// The stream's state for parameter j of sample i: output number i P + j of the seed.
+    std::uint64_t state_at(std::size_t i, std::size_t j) const {
+        return seed + (static_cast<std::uint64_t>(i) * P + 1 + j) * splitmix_gamma;
+    }
+
     /// The parameters of sample i.
     void draw(std::size_t i, std::array<double, P>& x) const {
-        std::uint64_t state = seed + (static_cast<std::uint64_t>(i) * P + 1) * splitmix_gamma;
+        std::uint64_t state = state_at(i, 0);
         for (std::size_t j = 0; j < P; ++j, state += splitmix_gamma) {
             if (t[j].fixed) continue;
             x[j] = t[j](uniform53(splitmix_mix(state)));
@@ -298,7 +303,7 @@ struct random_sampler {
         std::array<double, C> u;
         for (std::size_t j = 0; j < P; ++j) {
             if (t[j].fixed) continue;
-            std::uint64_t state = seed + (static_cast<std::uint64_t>(i0) * P + 1 + j) * splitmix_gamma;
+            std::uint64_t state = state_at(i0, j);
             constexpr std::uint64_t step = P * splitmix_gamma;
             for (std::size_t k = 0; k < C; ++k, state += step) u[k] = uniform53(splitmix_mix(state));
             t[j].template apply_block<C>(u.data(), x[j], n);
